@@ -1,0 +1,1 @@
+// Public surface of src/app: named exports only, no `export *`.

@@ -1,0 +1,1 @@
+// Public surface of src/bot: named exports only, no `export *`.

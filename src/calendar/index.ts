@@ -1,0 +1,1 @@
+// Public surface of src/calendar: named exports only, no `export *`.

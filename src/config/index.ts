@@ -1,0 +1,1 @@
+// Public surface of src/config: named exports only, no `export *`.

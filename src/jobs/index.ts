@@ -1,0 +1,1 @@
+// Public surface of src/jobs: named exports only, no `export *`.

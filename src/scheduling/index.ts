@@ -1,0 +1,1 @@
+// Public surface of src/scheduling: named exports only, no `export *`.

@@ -1,0 +1,1 @@
+// Public surface of src/solver: named exports only, no `export *`.

@@ -1,0 +1,1 @@
+// Public surface of src/store: named exports only, no `export *`.

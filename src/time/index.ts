@@ -1,0 +1,2 @@
+// Public surface of src/time: named exports only, no `export *`.
+export { type BusyInterval, type BusyKind, type Interval, mergeIntervals } from './interval.ts';
