@@ -1,5 +1,18 @@
 // Public surface of src/time: named exports only, no `export *`.
+export { type Grid, makeGrid, tickStart, ticksCovered, ticksTouched } from './grid.ts';
+export { isKnownHolidayRegion, type PublicHoliday, publicHolidays } from './holidays.ts';
 export { type BusyInterval, type BusyKind, type Interval, mergeIntervals } from './interval.ts';
+export {
+  type DailyRange,
+  DEFAULT_WORKING_HOURS,
+  describeWeeklyHours,
+  formatDailyRange,
+  parseDailyRange,
+  WEEKDAY_KEYS,
+  type WeekdayKey,
+  type WeeklyHours,
+  workingIntervals,
+} from './working-hours.ts';
 export {
   addDays,
   instantToZoned,
