@@ -1,0 +1,152 @@
+import { z } from 'zod';
+import { isKnownHolidayRegion } from '../time/holidays.ts';
+import { type DailyRange, parseDailyRange, WEEKDAY_KEYS, type WeekdayKey } from '../time/working-hours.ts';
+import { isValidZone } from '../time/zoned.ts';
+import { seriesListSchema, weekPlanSettingsSchema } from './series-schema.ts';
+
+const idSchema = z.string().regex(/^[a-z0-9-]+$/, {
+  message: 'expected an id of lower-case letters, digits and dashes, for example "ana" or "chart-room"',
+});
+
+const zoneSchema = z.string().refine(isValidZone, {
+  error: (issue) =>
+    `expected an IANA time zone such as "Europe/Lisbon" or "America/Halifax", got '${String(issue.input)}'`,
+});
+
+const dailyRangeSchema = z.string().transform((text, ctx): DailyRange => {
+  const r = parseDailyRange(text);
+  if (!r.ok) {
+    ctx.addIssue({ code: 'custom', message: r.message });
+    return z.NEVER;
+  }
+  return r.range;
+});
+
+/** Weekly hours as written: `{mon: ["09:00-17:00"], ...}`; days left out have no working hours. */
+export const weeklyHoursSchema = z.strictObject(
+  Object.fromEntries(WEEKDAY_KEYS.map((d) => [d, z.array(dailyRangeSchema).optional()])) as Record<
+    WeekdayKey,
+    z.ZodOptional<z.ZodArray<typeof dailyRangeSchema>>
+  >,
+);
+
+const feedSchema = z.string().superRefine((ref, ctx) => {
+  if (/^[a-z][a-z0-9+.-]*:/i.test(ref)) {
+    if (!/^https:\/\/[^\s/]+/i.test(ref))
+      ctx.addIssue({
+        code: 'custom',
+        message: `a feed is a path inside the workspace folder or an https:// URL, got '${ref}'`,
+      });
+    return;
+  }
+  const parts = ref.split(/[\\/]/);
+  if (ref.startsWith('/') || ref.startsWith('\\') || parts.includes('..') || ref.trim() === '')
+    ctx.addIssue({
+      code: 'custom',
+      message: `a feed path must stay inside the workspace folder (relative, without '..'), got '${ref}'`,
+    });
+});
+
+const holidayRegionSchema = z.string().refine(isKnownHolidayRegion, {
+  error: (issue) =>
+    `expected a holiday region of the date-holidays data: a country code such as "PT" or "NZ", or country-state such as "CA-NS"; got '${String(issue.input)}'`,
+});
+
+const ruleListSchema = z.array(z.string().trim().min(1, { message: 'a rule cannot be empty' })).default([]);
+
+/** One person as written under `people:`. */
+export const personSchema = z.strictObject({
+  id: idSchema,
+  name: z.string().min(1),
+  email: z.email({ message: 'expected an email address such as "ana@example.org"' }).optional(),
+  chat: z.string().min(1).optional(),
+  zone: zoneSchema.optional(),
+  workingHours: weeklyHoursSchema.optional(),
+  holidays: holidayRegionSchema.optional(),
+  feeds: z.array(feedSchema).default([]),
+  rules: ruleListSchema,
+});
+
+/** One room as written under `rooms:`. */
+export const roomSchema = z.strictObject({
+  id: idSchema,
+  name: z.string().min(1),
+  capacity: z.number().int().min(1, { message: 'a room seats at least one person' }),
+  features: z.array(z.string().min(1)).default([]),
+  zone: zoneSchema.optional(),
+  feeds: z.array(feedSchema).default([]),
+  rules: ruleListSchema,
+});
+
+/** One group as written under `groups:`; members are person ids. */
+export const groupSchema = z.strictObject({
+  id: idSchema,
+  name: z.string().min(1).optional(),
+  members: z.array(idSchema).min(1, { message: 'a group needs at least one member' }),
+});
+
+/** Minutes between candidate starts must divide an hour, so every hour starts on a tick. */
+const GRID_CHOICES = [1, 2, 3, 4, 5, 6, 10, 12, 15, 20, 30, 60] as const;
+
+/** The whole workspace.yaml. Unknown top-level keys are kept out and reported as warnings by the loader. */
+export const workspaceSchema = z
+  .object({
+    name: z.string().min(1).optional(),
+    zone: zoneSchema,
+    grid: z
+      .number()
+      .int()
+      .refine((n) => (GRID_CHOICES as readonly number[]).includes(n), {
+        message: `expected minutes that divide an hour: ${GRID_CHOICES.join(', ')}`,
+      })
+      .default(5),
+    horizon: z.number().int().min(1).max(366).default(14),
+    workingHours: weeklyHoursSchema.optional(),
+    tentative: z.enum(['penalty', 'hard']).default('penalty'),
+    admins: z.array(idSchema).default([]),
+    people: z.array(personSchema).default([]),
+    rooms: z.array(roomSchema).default([]),
+    groups: z.array(groupSchema).default([]),
+    series: seriesListSchema,
+    weekPlan: weekPlanSettingsSchema,
+  })
+  .superRefine((ws, ctx) => {
+    const owner = new Map<string, string>();
+    const claim = (id: string, what: string, path: (string | number)[]) => {
+      const before = owner.get(id);
+      if (before !== undefined)
+        ctx.addIssue({
+          code: 'custom',
+          path,
+          message: `id '${id}' is already used by ${before}; people, rooms and groups each need their own id`,
+        });
+      else owner.set(id, what);
+    };
+    ws.people.forEach((p, i) => claim(p.id, `person ${i + 1} (people[${i}])`, ['people', i, 'id']));
+    ws.rooms.forEach((r, i) => claim(r.id, `room ${i + 1} (rooms[${i}])`, ['rooms', i, 'id']));
+    ws.groups.forEach((g, i) => claim(g.id, `group ${i + 1} (groups[${i}])`, ['groups', i, 'id']));
+    const people = new Set(ws.people.map((p) => p.id));
+    ws.groups.forEach((g, i) =>
+      g.members.forEach((m, j) => {
+        if (!people.has(m))
+          ctx.addIssue({
+            code: 'custom',
+            path: ['groups', i, 'members', j],
+            message: `group '${g.id}' names '${m}', who is not under people:; add them or fix the id`,
+          });
+      }),
+    );
+    ws.admins.forEach((a, i) => {
+      if (!people.has(a))
+        ctx.addIssue({
+          code: 'custom',
+          path: ['admins', i],
+          message: `admin '${a}' is not under people:; add them or fix the id`,
+        });
+    });
+  });
+
+/** The workspace as written, before defaults. */
+export type WorkspaceInput = z.input<typeof workspaceSchema>;
+/** Top-level keys the schema knows. */
+export const WORKSPACE_KEYS: readonly string[] = Object.keys(workspaceSchema.shape);
