@@ -122,20 +122,22 @@ export const workspaceSchema = z
         });
       else owner.set(id, what);
     };
-    ws.people.forEach((p, i) => claim(p.id, `person ${i + 1} (people[${i}])`, ['people', i, 'id']));
-    ws.rooms.forEach((r, i) => claim(r.id, `room ${i + 1} (rooms[${i}])`, ['rooms', i, 'id']));
-    ws.groups.forEach((g, i) => claim(g.id, `group ${i + 1} (groups[${i}])`, ['groups', i, 'id']));
+    for (const [i, p] of ws.people.entries())
+      claim(p.id, `person ${i + 1} (people[${i}])`, ['people', i, 'id']);
+    for (const [i, r] of ws.rooms.entries()) claim(r.id, `room ${i + 1} (rooms[${i}])`, ['rooms', i, 'id']);
+    for (const [i, g] of ws.groups.entries())
+      claim(g.id, `group ${i + 1} (groups[${i}])`, ['groups', i, 'id']);
     const people = new Set(ws.people.map((p) => p.id));
-    ws.groups.forEach((g, i) =>
-      g.members.forEach((m, j) => {
+    for (const [i, g] of ws.groups.entries()) {
+      for (const [j, m] of g.members.entries()) {
         if (!people.has(m))
           ctx.addIssue({
             code: 'custom',
             path: ['groups', i, 'members', j],
             message: `group '${g.id}' names '${m}', who is not under people:; add them or fix the id`,
           });
-      }),
-    );
+      }
+    }
     ws.admins.forEach((a, i) => {
       if (!people.has(a))
         ctx.addIssue({
