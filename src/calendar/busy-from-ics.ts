@@ -1,0 +1,535 @@
+import ICAL from 'ical.js';
+import { SlotwrightError } from '../errors.ts';
+import { normalizeBusy } from '../time/busy-set.ts';
+import type { BusyInterval, BusyKind, Interval } from '../time/interval.ts';
+import { windowsZoneToIana } from '../time/windows-zones.ts';
+import {
+  addLocalDays,
+  canonicalZone,
+  instantToLocal,
+  type LocalDateTime,
+  localToInstant,
+} from '../time/zoned.ts';
+import { scanIcs } from './ics-scan.ts';
+
+type IcalTime = InstanceType<typeof ICAL.Time>;
+type IcalComponent = InstanceType<typeof ICAL.Component>;
+type IcalTimezone = InstanceType<typeof ICAL.Timezone>;
+type IcalDuration = InstanceType<typeof ICAL.Duration>;
+type IcalPeriod = InstanceType<typeof ICAL.Period>;
+type IcalRecur = InstanceType<typeof ICAL.Recur>;
+type Jcal = [string, unknown[], Jcal[]];
+
+/** What to read a feed for: the stretch of time wanted and whose calendar it is. */
+export interface BusyOptions {
+  /** Busy time is clipped to this window (UTC epoch ms, half-open). */
+  readonly window: Interval;
+  /** IANA zone of the feed's owner; all-day dates and floating times are read in it. */
+  readonly zone: string;
+  /** Owner's email; an event whose ATTENDEE line for it says PARTSTAT=DECLINED is free. @default undefined */
+  readonly ownerEmail?: string;
+  /** Stop expanding one series after this many instances (with a warning). @default 50000 */
+  readonly maxInstancesPerSeries?: number;
+}
+
+/** Busy time read from one feed, with what could not be read. */
+export interface BusyReport {
+  /** Sorted, merged, clipped UTC stretches; busy wins where busy and tentative overlap. */
+  readonly busy: readonly BusyInterval[];
+  /** Plain-language notes on what was guessed or left out (never event titles or people). */
+  readonly warnings: readonly string[];
+  /** Number of components that could not be read and were left out. */
+  readonly skipped: number;
+}
+
+const DEFAULT_MAX_INSTANCES = 50_000;
+const DAY_MS = 86_400_000;
+// Local times differ from UTC by at most about 14 hours; two days of slack keeps every candidate.
+const SLACK_MS = 2 * DAY_MS;
+
+type ZoneRef =
+  | { readonly kind: 'utc' }
+  | { readonly kind: 'iana'; readonly zone: string }
+  | { readonly kind: 'ical'; readonly tz: IcalTimezone };
+
+/** How long each instance lasts: whole local days plus an exact number of milliseconds. */
+interface Length {
+  readonly days: number;
+  readonly ms: number;
+}
+
+// ical.js keeps a TZID it could not resolve as a plain `timezone` field its types do not declare.
+function tzidOf(t: IcalTime): string | undefined {
+  const v = (t as { timezone?: unknown }).timezone;
+  return typeof v === 'string' ? v : undefined;
+}
+
+function localOf(t: IcalTime): LocalDateTime {
+  return { year: t.year, month: t.month, day: t.day, hour: t.hour, minute: t.minute, second: t.second };
+}
+
+function pseudoUtc(l: LocalDateTime): number {
+  return Date.UTC(l.year, l.month - 1, l.day, l.hour, l.minute, l.second);
+}
+
+// Offset of an embedded VTIMEZONE at an instant, through ical.js's own zone rules.
+function icalOffsetAt(tz: IcalTimezone, instant: number): number {
+  const d = new Date(instant);
+  const u = ICAL.Time.fromData(
+    {
+      year: d.getUTCFullYear(),
+      month: d.getUTCMonth() + 1,
+      day: d.getUTCDate(),
+      hour: d.getUTCHours(),
+      minute: d.getUTCMinutes(),
+      second: d.getUTCSeconds(),
+    },
+    ICAL.Timezone.utcTimezone,
+  );
+  const l = u.convertToZone(tz);
+  return pseudoUtc(localOf(l)) - Math.floor(instant / 1000) * 1000;
+}
+
+// ical.js reads a local time in a gap or overlap differently from RFC 5545 section 3.3.5, so the
+// choice between candidate offsets is made here: the first occurrence of a repeated time, and the
+// offset before the gap for a nonexistent one (the same rule Temporal's 'compatible' follows).
+function icalLocalToInstant(tz: IcalTimezone, local: LocalDateTime): number {
+  const pseudo = pseudoUtc(local);
+  const before = icalOffsetAt(tz, pseudo - DAY_MS);
+  const after = icalOffsetAt(tz, pseudo + DAY_MS);
+  const candidates = [pseudo - before, pseudo - after].filter((c) => icalOffsetAt(tz, c) === pseudo - c);
+  if (candidates.length > 0) return Math.min(...candidates);
+  return pseudo - before;
+}
+
+function icalInstantToLocal(tz: IcalTimezone, instant: number): LocalDateTime {
+  return instantToLocal(instant + icalOffsetAt(tz, instant), 'UTC');
+}
+
+class FeedReader {
+  readonly raw: BusyInterval[] = [];
+  readonly warnings: string[] = [];
+  skipped = 0;
+  readonly #owner: ZoneRef;
+  readonly #ownerEmail: string | undefined;
+  readonly #window: Interval;
+  readonly #maxInstances: number;
+  readonly #zones = new Map<string, ZoneRef>();
+  readonly #vtimezones = new Map<string, Jcal>();
+  readonly #warned = new Set<string>();
+
+  constructor(options: BusyOptions, vtimezones: Map<string, Jcal>) {
+    this.#owner = { kind: 'iana', zone: options.zone };
+    this.#ownerEmail = options.ownerEmail?.trim().toLowerCase();
+    this.#window = options.window;
+    this.#maxInstances = options.maxInstancesPerSeries ?? DEFAULT_MAX_INSTANCES;
+    this.#vtimezones = vtimezones;
+  }
+
+  warnOnce(key: string, message: string): void {
+    if (this.#warned.has(key)) return;
+    this.#warned.add(key);
+    this.warnings.push(message);
+  }
+
+  // TZID order: an IANA name (trusted over any embedded copy of its rules), a Windows name through
+  // CLDR, a vendor-prefixed IANA name ("/example.org/2005_1/Europe/Lisbon"), the embedded
+  // VTIMEZONE, and last the owner's zone with a warning.
+  zoneFor(tzid: string): ZoneRef {
+    const hit = this.#zones.get(tzid);
+    if (hit !== undefined) return hit;
+    let ref: ZoneRef | undefined;
+    const iana = canonicalZone(tzid.trim()) ?? windowsZoneToIana(tzid);
+    if (iana !== undefined) ref = { kind: 'iana', zone: iana };
+    if (ref === undefined && tzid.includes('/')) {
+      const parts = tzid.split('/').filter((p) => p !== '');
+      for (let k = Math.max(0, parts.length - 3); k < parts.length - 1 && ref === undefined; k++) {
+        const z = canonicalZone(parts.slice(k).join('/'));
+        if (z !== undefined) ref = { kind: 'iana', zone: z };
+      }
+    }
+    if (ref === undefined) {
+      const vtz = this.#vtimezones.get(tzid);
+      if (vtz !== undefined) {
+        try {
+          ref = { kind: 'ical', tz: new ICAL.Timezone(new ICAL.Component(vtz)) };
+        } catch {
+          ref = undefined;
+        }
+      }
+    }
+    if (ref === undefined) {
+      this.warnOnce(
+        `tz:${tzid}`,
+        `unknown time zone '${tzid.slice(0, 64)}': its times are read in ${this.#ownerZoneName()}`,
+      );
+      ref = this.#owner;
+    }
+    this.#zones.set(tzid, ref);
+    return ref;
+  }
+
+  #ownerZoneName(): string {
+    return this.#owner.kind === 'iana' ? this.#owner.zone : 'UTC';
+  }
+
+  /** The zone a time value is written in: UTC, its TZID, or the owner's (dates and floating times). */
+  zoneOf(t: IcalTime, fallbackTzid?: string): ZoneRef {
+    if (t.isDate) return this.#owner;
+    if (t.zone === ICAL.Timezone.utcTimezone || t.zone?.tzid === 'UTC') return { kind: 'utc' };
+    const tzid = tzidOf(t) ?? fallbackTzid;
+    if (tzid === undefined || tzid === '') return this.#owner;
+    return this.zoneFor(tzid);
+  }
+
+  toInstant(local: LocalDateTime, zone: ZoneRef): number {
+    switch (zone.kind) {
+      case 'utc':
+        return pseudoUtc(local);
+      case 'iana':
+        return localToInstant(local, zone.zone);
+      case 'ical':
+        return icalLocalToInstant(zone.tz, local);
+    }
+  }
+
+  toLocal(instant: number, zone: ZoneRef): LocalDateTime {
+    switch (zone.kind) {
+      case 'utc':
+        return instantToLocal(instant, 'UTC');
+      case 'iana':
+        return instantToLocal(instant, zone.zone);
+      case 'ical':
+        return icalInstantToLocal(zone.tz, instant);
+    }
+  }
+
+  instantOf(t: IcalTime, fallbackTzid?: string): number {
+    return this.toInstant(localOf(t), this.zoneOf(t, fallbackTzid));
+  }
+
+  /** Whether the owner declined this event (ATTENDEE with PARTSTAT=DECLINED). */
+  declined(comp: IcalComponent): boolean {
+    if (this.#ownerEmail === undefined) return false;
+    for (const p of comp.getAllProperties('attendee')) {
+      const v = p.getFirstValue();
+      if (typeof v !== 'string') continue;
+      const email = v
+        .replace(/^mailto:/i, '')
+        .trim()
+        .toLowerCase();
+      if (email !== this.#ownerEmail) continue;
+      const partstat = p.getParameter('partstat');
+      if (typeof partstat === 'string' && partstat.toUpperCase() === 'DECLINED') return true;
+    }
+    return false;
+  }
+
+  /** Busy kind of an event, or undefined when it leaves the time free. */
+  kindOf(comp: IcalComponent): BusyKind | undefined {
+    const status = String(comp.getFirstPropertyValue('status') ?? '').toUpperCase();
+    const transp = String(comp.getFirstPropertyValue('transp') ?? '').toUpperCase();
+    if (status === 'CANCELLED' || transp === 'TRANSPARENT') return undefined;
+    if (this.declined(comp)) return undefined;
+    return status === 'TENTATIVE' ? 'tentative' : 'busy';
+  }
+
+  // RFC 5545 section 3.8.5.3: a DTEND gives every instance the same exact duration, a DURATION the
+  // same nominal one; with neither, a DATE start lasts one day and a DATE-TIME start no time.
+  lengthOf(comp: IcalComponent, start: IcalTime, where: string): Length | undefined {
+    const endProp = comp.getFirstProperty('dtend');
+    if (endProp !== null) {
+      const end = endProp.getFirstValue() as IcalTime;
+      if (start.isDate && end.isDate) {
+        const days = Math.round((pseudoUtc(localOf(end)) - pseudoUtc(localOf(start))) / DAY_MS);
+        return days >= 0 ? { days, ms: 0 } : this.#negative(where);
+      }
+      const ms = this.instantOf(end) - this.instantOf(start);
+      return ms >= 0 ? { days: 0, ms } : this.#negative(where);
+    }
+    const durProp = comp.getFirstProperty('duration');
+    if (durProp !== null) {
+      const d = durProp.getFirstValue() as IcalDuration;
+      const sign = d.isNegative ? -1 : 1;
+      const days = sign * (d.weeks * 7 + d.days);
+      const ms = sign * (d.hours * 3600 + d.minutes * 60 + d.seconds) * 1000;
+      return days >= 0 && ms >= 0 ? { days, ms } : this.#negative(where);
+    }
+    return start.isDate ? { days: 1, ms: 0 } : { days: 0, ms: 0 };
+  }
+
+  #negative(where: string): undefined {
+    this.warnings.push(`${where}: ends before it starts; left out`);
+    this.skipped++;
+    return undefined;
+  }
+
+  /** Adds one instance starting at a local time in a zone. */
+  addInstance(local: LocalDateTime, zone: ZoneRef, length: Length, kind: BusyKind): void {
+    const start = this.toInstant(local, zone);
+    const end =
+      length.days === 0
+        ? start + length.ms
+        : this.toInstant(addLocalDays(local, length.days), zone) + length.ms;
+    if (end > start && end > this.#window.start && start < this.#window.end)
+      this.raw.push({ start, end, kind });
+  }
+
+  readEvent(comp: IcalComponent, where: string, overridden: ReadonlySet<number> | undefined): void {
+    const startProp = comp.getFirstProperty('dtstart');
+    const ridProp = comp.getFirstProperty('recurrence-id');
+    if (startProp === null && ridProp === null) {
+      this.warnings.push(`${where}: no DTSTART; left out`);
+      this.skipped++;
+      return;
+    }
+    const start = (startProp ?? ridProp)!.getFirstValue() as IcalTime;
+    const kind = this.kindOf(comp);
+    const length = this.lengthOf(comp, start, where);
+    if (length === undefined || kind === undefined) return;
+    const zone = this.zoneOf(start);
+    if (ridProp !== null) {
+      const range = ridProp.getParameter('range');
+      if (typeof range === 'string' && range.toUpperCase() === 'THISANDFUTURE')
+        this.warnOnce(`range:${where}`, `${where}: RANGE=THISANDFUTURE is read as one changed instance`);
+    }
+    const recurring = ridProp === null && (comp.hasProperty('rrule') || comp.hasProperty('rdate'));
+    if (!recurring) {
+      this.addInstance(localOf(start), zone, length, kind);
+      return;
+    }
+    this.#expand(comp, start, zone, length, kind, where, overridden);
+  }
+
+  #expand(
+    comp: IcalComponent,
+    start: IcalTime,
+    zone: ZoneRef,
+    length: Length,
+    kind: BusyKind,
+    where: string,
+    overridden: ReadonlySet<number> | undefined,
+  ): void {
+    // ical.js compares a UTC UNTIL with local instance times as if both were UTC; restating UNTIL
+    // in the series' own zone keeps the last instances RFC 5545 asks for.
+    if (!start.isDate && zone.kind !== 'utc') {
+      for (const p of comp.getAllProperties('rrule')) {
+        const recur = p.getFirstValue() as IcalRecur;
+        const until = recur.until;
+        if (
+          until !== null &&
+          until !== undefined &&
+          !until.isDate &&
+          until.zone === ICAL.Timezone.utcTimezone
+        ) {
+          const local = this.toLocal(pseudoUtc(localOf(until)), zone);
+          recur.until = ICAL.Time.fromData(local);
+        }
+      }
+    }
+    const excluded = new Set<number>(overridden);
+    for (const p of comp.getAllProperties('exdate')) {
+      for (const v of p.getValues() as IcalTime[]) excluded.add(this.instantOf(v, tzidOf(start)));
+    }
+    const lengthBound = length.days * 25 * 3_600_000 + length.ms;
+    const lo = this.#window.start - SLACK_MS - lengthBound;
+    const hi = this.#window.end + SLACK_MS;
+    const event = new ICAL.Event(comp);
+    const it = event.iterator();
+    let n = 0;
+    try {
+      for (let occ = it.next(); occ; occ = it.next()) {
+        if (++n > this.#maxInstances) {
+          this.warnings.push(
+            `${where}: stopped expanding the series after ${this.#maxInstances} instances; later ones are left out`,
+          );
+          break;
+        }
+        const local = localOf(occ);
+        const pseudo = pseudoUtc(local);
+        if (pseudo > hi) break;
+        if (pseudo < lo) continue;
+        const occZone = occ.isDate || tzidOf(occ) === undefined ? zone : this.zoneOf(occ, tzidOf(start));
+        const at = this.toInstant(local, occ.zone === ICAL.Timezone.utcTimezone ? { kind: 'utc' } : occZone);
+        if (excluded.has(at)) continue;
+        this.addInstance(
+          local,
+          occ.zone === ICAL.Timezone.utcTimezone ? { kind: 'utc' } : occZone,
+          length,
+          kind,
+        );
+      }
+    } catch (error) {
+      this.warnings.push(`${where}: recurrence could not be expanded further (${cleanMessage(error)})`);
+    }
+  }
+
+  readFreeBusy(comp: IcalComponent, where: string): void {
+    for (const p of comp.getAllProperties('freebusy')) {
+      const fbtype = String(p.getParameter('fbtype') ?? 'BUSY').toUpperCase();
+      if (fbtype === 'FREE') continue;
+      // RFC 5545 section 3.2.9: unknown FBTYPE values are treated like BUSY.
+      const kind: BusyKind = fbtype === 'BUSY-TENTATIVE' ? 'tentative' : 'busy';
+      try {
+        for (const period of p.getValues() as IcalPeriod[]) {
+          const start = this.instantOf(period.start);
+          const end = this.instantOf(period.getEnd());
+          if (end > start && end > this.#window.start && start < this.#window.end)
+            this.raw.push({ start, end, kind });
+        }
+      } catch (error) {
+        this.warnings.push(`${where}: a FREEBUSY line could not be read (${cleanMessage(error)})`);
+        this.skipped++;
+      }
+    }
+  }
+}
+
+// ical.js quotes the offending text in its messages; it may be an event title, so it is cut out.
+function cleanMessage(error: unknown): string {
+  const text = error instanceof Error ? error.message : String(error);
+  return text
+    .replace(/"[^"]*"/g, '"…"')
+    .replace(/\s+/g, ' ')
+    .slice(0, 160);
+}
+
+interface Child {
+  readonly jcal: Jcal;
+  readonly where: string;
+}
+
+function describe(name: string, line: number | undefined, index: number): string {
+  return line === undefined ? `${name.toUpperCase()} #${index + 1}` : `${name.toUpperCase()} at line ${line}`;
+}
+
+function rootsOf(parsed: unknown): Jcal[] {
+  if (!Array.isArray(parsed)) return [];
+  return (typeof parsed[0] === 'string' ? [parsed] : parsed) as Jcal[];
+}
+
+// Parses the whole text with ical.js; when that fails, parses each top-level component on its own
+// so one broken event does not hide the rest, and reports each broken one by name and line.
+function childrenOf(text: string, reader: { warnings: string[]; skipped: number }): Child[] {
+  const scan = scanIcs(text);
+  let roots: Jcal[] | undefined;
+  let wholeError: unknown;
+  try {
+    roots = rootsOf(ICAL.parse(text));
+  } catch (error) {
+    wholeError = error;
+  }
+  if (roots !== undefined) {
+    const jcals = roots.flatMap((r) => (r[0] === 'vcalendar' ? r[2] : []));
+    if (roots.length === 0 || roots.every((r) => r[0] !== 'vcalendar'))
+      throw new SlotwrightError(
+        'ics_invalid',
+        'not an iCalendar feed: no BEGIN:VCALENDAR found at line 1 or later',
+      );
+    const aligned =
+      jcals.length === scan.components.length && jcals.every((j, i) => j[0] === scan.components[i]!.name);
+    return jcals.map((jcal, i) => ({
+      jcal,
+      where: describe(jcal[0], aligned ? scan.components[i]!.line : undefined, i),
+    }));
+  }
+  if (scan.calendars === 0)
+    throw new SlotwrightError(
+      'ics_invalid',
+      `not an iCalendar feed: ${cleanMessage(wholeError)}; expected BEGIN:VCALENDAR ... END:VCALENDAR`,
+      { cause: wholeError },
+    );
+  const out: Child[] = [];
+  scan.components.forEach((c, i) => {
+    const where = describe(c.name, c.line, i);
+    try {
+      if (c.unterminated) throw new Error(`no END:${c.name.toUpperCase()}`);
+      const parsed = rootsOf(ICAL.parse(`BEGIN:VCALENDAR\r\n${c.text}\r\nEND:VCALENDAR\r\n`));
+      for (const r of parsed) for (const jcal of r[2]) out.push({ jcal, where });
+    } catch (error) {
+      const at = c.badLine === undefined ? '' : ` (line ${c.badLine})`;
+      reader.warnings.push(`${where} could not be read${at}: ${cleanMessage(error)}; left out`);
+      reader.skipped++;
+    }
+  });
+  return out;
+}
+
+/**
+ * Reads an iCalendar feed (RFC 5545) into busy time over a window. Titles, descriptions, places and
+ * attendees are never copied out; only the busy stretches, warnings and a count of skipped parts are.
+ * Throws SlotwrightError `ics_invalid` only when the text is no iCalendar data at all.
+ */
+export function busyFromIcs(icsText: string, options: BusyOptions): BusyReport {
+  const { window } = options;
+  if (!Number.isFinite(window.start) || !Number.isFinite(window.end) || window.end <= window.start)
+    throw new SlotwrightError('bad_argument', 'the window must have a start before its end');
+  if (canonicalZone(options.zone) === undefined)
+    throw new SlotwrightError(
+      'zone_unknown',
+      `unknown time zone '${options.zone}'; use an IANA name such as Europe/Lisbon`,
+    );
+  const collector = { warnings: [] as string[], skipped: 0 };
+  const children = childrenOf(icsText, collector);
+  const vtimezones = new Map<string, Jcal>();
+  const events: { comp: IcalComponent; where: string }[] = [];
+  const freeBusy: { comp: IcalComponent; where: string }[] = [];
+  for (const child of children) {
+    const name = child.jcal[0];
+    try {
+      // Detached components: ical.js then looks no TZID up in the whole tree (slow on big feeds)
+      // and zones are resolved here, through Temporal.
+      const comp = new ICAL.Component(child.jcal);
+      if (name === 'vtimezone') {
+        const tzid = comp.getFirstPropertyValue('tzid');
+        if (typeof tzid === 'string') vtimezones.set(tzid, child.jcal);
+      } else if (name === 'vevent') events.push({ comp, where: child.where });
+      else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
+    } catch (error) {
+      collector.warnings.push(`${child.where} could not be read: ${cleanMessage(error)}; left out`);
+      collector.skipped++;
+    }
+  }
+  const reader = new FeedReader(options, vtimezones);
+  reader.warnings.push(...collector.warnings);
+  reader.skipped += collector.skipped;
+
+  // Changed instances (RECURRENCE-ID) replace the master's instance at that original time.
+  const overrides = new Map<string, Set<number>>();
+  const masters: { comp: IcalComponent; where: string }[] = [];
+  for (const e of events) {
+    try {
+      const rid = e.comp.getFirstPropertyValue('recurrence-id') as IcalTime | null;
+      if (rid === null) {
+        masters.push(e);
+        continue;
+      }
+      const uid = String(e.comp.getFirstPropertyValue('uid') ?? '');
+      const set = overrides.get(uid) ?? new Set<number>();
+      set.add(reader.instantOf(rid));
+      overrides.set(uid, set);
+      reader.readEvent(e.comp, e.where, undefined);
+    } catch (error) {
+      reader.warnings.push(`${e.where} could not be read: ${cleanMessage(error)}; left out`);
+      reader.skipped++;
+    }
+  }
+  for (const e of masters) {
+    try {
+      const uid = String(e.comp.getFirstPropertyValue('uid') ?? '');
+      reader.readEvent(e.comp, e.where, overrides.get(uid));
+    } catch (error) {
+      reader.warnings.push(`${e.where} could not be read: ${cleanMessage(error)}; left out`);
+      reader.skipped++;
+    }
+  }
+  for (const f of freeBusy) {
+    try {
+      reader.readFreeBusy(f.comp, f.where);
+    } catch (error) {
+      reader.warnings.push(`${f.where} could not be read: ${cleanMessage(error)}; left out`);
+      reader.skipped++;
+    }
+  }
+  return { busy: normalizeBusy(reader.raw, window), warnings: reader.warnings, skipped: reader.skipped };
+}

@@ -1,0 +1,127 @@
+import { describe, expect, it } from 'vitest';
+import { busyFromIcs } from '../../src/calendar/busy-from-ics.ts';
+import { SlotwrightError } from '../../src/errors.ts';
+
+const WEEK = { start: Date.UTC(2026, 11, 7), end: Date.UTC(2026, 11, 14) };
+const iso = (ms: number) => new Date(ms).toISOString().replace('.000Z', 'Z');
+const cal = (...parts: string[]) =>
+  ['BEGIN:VCALENDAR', 'VERSION:2.0', 'PRODID:-//slotwright//test//EN', ...parts, 'END:VCALENDAR'].join(
+    '\r\n',
+  );
+const rows = (r: ReturnType<typeof busyFromIcs>) => r.busy.map((b) => [iso(b.start), iso(b.end), b.kind]);
+
+describe('busyFromIcs', () => {
+  it('expands a daily series with EXDATE, a moved instance and a cancelled instance', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:s1',
+      'DTSTART;TZID=America/Halifax:20261207T090000',
+      'DTEND;TZID=America/Halifax:20261207T100000',
+      'RRULE:FREQ=DAILY;COUNT=5',
+      'EXDATE;TZID=America/Halifax:20261208T090000',
+      'SUMMARY:Survey stand-up',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:s1',
+      'RECURRENCE-ID;TZID=America/Halifax:20261209T090000',
+      'DTSTART;TZID=America/Halifax:20261209T110000',
+      'DTEND;TZID=America/Halifax:20261209T113000',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:s1',
+      // RECURRENCE-ID written in UTC for a series written in local time still matches (common practice)
+      'RECURRENCE-ID:20261210T130000Z',
+      'DTSTART;TZID=America/Halifax:20261210T090000',
+      'STATUS:CANCELLED',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'America/Halifax' });
+    // Halifax is UTC-4 in December (IANA tzdata: AST)
+    expect(rows(r)).toEqual([
+      ['2026-12-07T13:00:00Z', '2026-12-07T14:00:00Z', 'busy'],
+      ['2026-12-09T15:00:00Z', '2026-12-09T15:30:00Z', 'busy'],
+      ['2026-12-11T13:00:00Z', '2026-12-11T14:00:00Z', 'busy'],
+    ]);
+    expect(r.warnings).toEqual([]);
+    expect(r.skipped).toBe(0);
+  });
+
+  it('reads all-day dates in the owner zone, tentative time cut around busy time', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:leave',
+      'DTSTART;VALUE=DATE:20261208',
+      'DTEND;VALUE=DATE:20261210',
+      'STATUS:TENTATIVE',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:m',
+      'DTSTART:20261208T100000Z',
+      'DTEND:20261208T110000Z',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'Europe/Lisbon' });
+    // Lisbon is UTC+0 in December (IANA tzdata: WET)
+    expect(rows(r)).toEqual([
+      ['2026-12-08T00:00:00Z', '2026-12-08T10:00:00Z', 'tentative'],
+      ['2026-12-08T10:00:00Z', '2026-12-08T11:00:00Z', 'busy'],
+      ['2026-12-08T11:00:00Z', '2026-12-10T00:00:00Z', 'tentative'],
+    ]);
+  });
+
+  it('treats transparent, cancelled and declined events as free', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:t',
+      'DTSTART:20261208T100000Z',
+      'DTEND:20261208T110000Z',
+      'TRANSP:TRANSPARENT',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:c',
+      'DTSTART:20261208T120000Z',
+      'DTEND:20261208T130000Z',
+      'STATUS:CANCELLED',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:d',
+      'DTSTART:20261208T140000Z',
+      'DTEND:20261208T150000Z',
+      'ATTENDEE;PARTSTAT=DECLINED:mailto:Maren@Saltline.example',
+      'ATTENDEE;PARTSTAT=ACCEPTED:mailto:teo@saltline.example',
+      'END:VEVENT',
+    );
+    const declinedByOwner = busyFromIcs(ics, {
+      window: WEEK,
+      zone: 'UTC',
+      ownerEmail: 'maren@saltline.example',
+    });
+    expect(rows(declinedByOwner)).toEqual([]);
+    const other = busyFromIcs(ics, { window: WEEK, zone: 'UTC', ownerEmail: 'teo@saltline.example' });
+    expect(rows(other)).toEqual([['2026-12-08T14:00:00Z', '2026-12-08T15:00:00Z', 'busy']]);
+  });
+
+  it('keeps the good events of a damaged feed and names the broken component and line', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:ok',
+      'DTSTART:20261208T100000Z',
+      'DTEND:20261208T110000Z',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:broken',
+      'DTSTART:20261209T100000Z',
+      'this line has no colon',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'UTC' });
+    expect(rows(r)).toEqual([['2026-12-08T10:00:00Z', '2026-12-08T11:00:00Z', 'busy']]);
+    expect(r.skipped).toBe(1);
+    expect(r.warnings).toHaveLength(1);
+    expect(r.warnings[0]).toMatch(/^VEVENT at line 9 could not be read \(line 12\)/);
+  });
+
+  it('rejects text that is not iCalendar', () => {
+    expect(() => busyFromIcs('<html>nope</html>', { window: WEEK, zone: 'UTC' })).toThrow(SlotwrightError);
+  });
+});
