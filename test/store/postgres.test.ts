@@ -1,0 +1,68 @@
+import { describe, expect, it } from 'vitest';
+import { storeContract } from './contract.ts';
+import { postgresFactory } from './factories.ts';
+
+const url = process.env.SLOTWRIGHT_TEST_DATABASE_URL;
+
+if (url === undefined || url === '') {
+  console.warn('store contract on PostgreSQL skipped: set SLOTWRIGHT_TEST_DATABASE_URL to run it');
+  describe.skipIf(true)('store contract (PostgreSQL): SLOTWRIGHT_TEST_DATABASE_URL is not set', () => {
+    it('runs when SLOTWRIGHT_TEST_DATABASE_URL names a server', () => undefined);
+  });
+} else {
+  storeContract('PostgreSQL', postgresFactory(url));
+}
+
+describe.skipIf(url === undefined || url === '')('PostgreSQL exclusion constraint', () => {
+  it('the database itself refuses two live overlapping rows of one resource (SQLSTATE 23P01)', async () => {
+    const sut = await postgresFactory(url!)();
+    try {
+      const db = sut.handle.db;
+      const booking = (id: string) => ({
+        id,
+        idem_key: id,
+        request_id: null,
+        option_id: null,
+        series_id: null,
+        organizer: 'ines',
+        title: 't',
+        start_ms: 0,
+        end_ms: 100,
+        room: 'tejo',
+        state: 'booked' as const,
+        hold_expires_ms: null,
+        sequence: 0,
+        cancel_reason: null,
+        created_ms: 0,
+        updated_ms: 0,
+      });
+      await db
+        .insertInto('booking')
+        .values([booking('x1'), booking('x2')])
+        .execute();
+      await db
+        .insertInto('occupancy')
+        .values({ booking_id: 'x1', resource: 'r:tejo', start_ms: 0, end_ms: 100, state: 'booked' })
+        .execute();
+      // PostgreSQL error codes appendix: 23P01 is exclusion_violation.
+      await expect(
+        db
+          .insertInto('occupancy')
+          .values({ booking_id: 'x2', resource: 'r:tejo', start_ms: 99, end_ms: 200, state: 'booked' })
+          .execute(),
+      ).rejects.toMatchObject({ code: '23P01' });
+      // Touching ranges and cancelled rows are allowed.
+      await db
+        .insertInto('occupancy')
+        .values([
+          { booking_id: 'x2', resource: 'r:tejo', start_ms: 100, end_ms: 200, state: 'booked' },
+          { booking_id: 'x2', resource: 'r:tejo', start_ms: 50, end_ms: 60, state: 'cancelled' },
+        ])
+        .execute();
+      const n = await db.selectFrom('occupancy').select(db.fn.countAll().as('n')).executeTakeFirstOrThrow();
+      expect(Number(n.n)).toBe(3);
+    } finally {
+      await sut.cleanup();
+    }
+  });
+});

@@ -1,0 +1,4 @@
+import { storeContract } from './contract.ts';
+import { sqliteFactory } from './factories.ts';
+
+storeContract('SQLite', sqliteFactory);
