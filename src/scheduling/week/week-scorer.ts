@@ -1,0 +1,387 @@
+import type { WeekSpace } from './week-space.ts';
+
+/** The preference cost of a plan, split by kind. */
+export interface ScoreParts {
+  readonly spread: number;
+  readonly isolated: number;
+  readonly roomStability: number;
+  readonly preferredDays: number;
+  readonly preferredHours: number;
+  readonly usualHours: number;
+  readonly moves: number;
+  readonly seats: number;
+  readonly rules: number;
+}
+
+/** Names of the score parts, in report order. */
+export const SCORE_PART_NAMES: readonly (keyof ScoreParts)[] = [
+  'spread',
+  'isolated',
+  'roomStability',
+  'preferredDays',
+  'preferredHours',
+  'usualHours',
+  'moves',
+  'seats',
+  'rules',
+];
+
+type SeriesWeight = 'spread' | 'roomStability' | 'preferredDays' | 'preferredHours' | 'usualHours' | 'moves';
+const SERIES_WEIGHTS: readonly SeriesWeight[] = [
+  'spread',
+  'roomStability',
+  'preferredDays',
+  'preferredHours',
+  'usualHours',
+  'moves',
+];
+const WEIGHT_SLOT: Readonly<Record<SeriesWeight, number>> = {
+  spread: 0,
+  roomStability: 1,
+  preferredDays: 2,
+  preferredHours: 3,
+  usualHours: 4,
+  moves: 5,
+};
+
+/**
+ * Scores week plans with occupancy counters per attendee, room slot and series kept in typed arrays,
+ * so the cost change of moving one session touches only that session's series and attendees.
+ * A value of -1 marks a session left out of the plan.
+ */
+export class WeekScorer {
+  readonly #space: WeekSpace;
+  readonly #C: number;
+  readonly #D: number;
+  readonly #RS: number;
+  /** Current value of each session (-1 = not placed). */
+  readonly #value: Int32Array;
+  /** Sessions covering each attendee x cell. */
+  readonly #occ: Uint16Array;
+  /** Sessions starting at each attendee x cell. */
+  readonly #starts: Uint16Array;
+  /** Sessions of each series x day. */
+  readonly #seriesDay: Uint16Array;
+  /** Sessions of each series x room slot. */
+  readonly #seriesRoom: Uint16Array;
+  /** Per series x start cell: day, hour, usual-hours and rule costs. */
+  readonly #prefDays: Float64Array;
+  readonly #prefHours: Float64Array;
+  readonly #usual: Float64Array;
+  readonly #rules: Float64Array;
+  /** Per series x room slot: missing-seat cost. */
+  readonly #seats: Float64Array;
+  /** Per series: last week's values (one entry per session). */
+  readonly #last: readonly Int32Array[];
+  /** Per series: indexes of attendees who opted in to compactness. */
+  readonly #compact: readonly Int32Array[];
+  readonly #weights: Float64Array;
+  readonly #isolatedWeight: number;
+  /** Attendee-cells with more than one session (each extra session counts once). */
+  #clashes = 0;
+
+  constructor(space: WeekSpace) {
+    this.#space = space;
+    const req = space.request;
+    const C = req.cells.length;
+    const S = req.series.length;
+    const A = req.attendees.length;
+    const R = req.rooms.length;
+    const RS = space.roomSlots;
+    this.#C = C;
+    this.#D = req.days;
+    this.#RS = RS;
+    this.#value = new Int32Array(space.sessionCount).fill(-1);
+    this.#occ = new Uint16Array(A * C);
+    this.#starts = new Uint16Array(A * C);
+    this.#seriesDay = new Uint16Array(S * req.days);
+    this.#seriesRoom = new Uint16Array(S * RS);
+    this.#prefDays = new Float64Array(S * C);
+    this.#prefHours = new Float64Array(S * C);
+    this.#usual = new Float64Array(S * C);
+    this.#rules = new Float64Array(S * C);
+    this.#seats = new Float64Array(S * RS);
+    const names = SERIES_WEIGHTS;
+    this.#weights = new Float64Array(S * names.length);
+    this.#isolatedWeight = req.weights.isolated;
+    const roomIndex = new Map(req.rooms.map((r, i) => [r.id, i]));
+    const last: Int32Array[] = req.series.map(() => new Int32Array(0));
+    const lastLists: number[][] = req.series.map(() => []);
+    const seriesIndex = new Map(req.series.map((s, i) => [s.id, i]));
+    for (const p of req.lastWeek ?? []) {
+      const s = seriesIndex.get(p.series);
+      if (s === undefined) continue;
+      // a room that is gone can never be matched: encode it out of range
+      const r = p.room === null ? R : (roomIndex.get(p.room) ?? -1);
+      lastLists[s]!.push(r < 0 ? -1 : p.cell * RS + r);
+    }
+    lastLists.forEach((l, s) => {
+      last[s] = Int32Array.from(l);
+    });
+    this.#last = last;
+    this.#compact = req.series.map((s) =>
+      Int32Array.from(s.attendees.filter((a) => req.attendees[a]!.compact === true)),
+    );
+    req.series.forEach((s, si) => {
+      names.forEach((n, k) => {
+        this.#weights[si * names.length + k] = s.weights?.[n] ?? req.weights[n];
+      });
+      const wDays = this.#w(si, 'preferredDays');
+      const wHours = this.#w(si, 'preferredHours');
+      const wUsual = this.#w(si, 'usualHours');
+      for (let c = 0; c < C; c++) {
+        const cell = req.cells[c]!;
+        if (s.preferredDays !== undefined && s.preferredDays[cell.day] !== true)
+          this.#prefDays[si * C + c] = wDays;
+        if (s.preferredStarts !== undefined && s.preferredStarts[c] !== true)
+          this.#prefHours[si * C + c] = wHours;
+        let usual = 0;
+        let rules = 0;
+        for (const a of s.attendees) {
+          const att = req.attendees[a]!;
+          for (let k = 0; k < s.length && c + k < C; k++) {
+            const hours = (req.cells[c + k]!.end - req.cells[c + k]!.start) / 3_600_000;
+            usual += (att.offHours?.[c + k] ?? 0) * hours * (att.offHoursWeight ?? 1);
+            rules += att.ruleCost?.[c + k] ?? 0;
+          }
+        }
+        this.#usual[si * C + c] = usual * wUsual;
+        this.#rules[si * C + c] = rules * req.weights.rules;
+      }
+      if (s.room !== undefined && !req.seatsHard)
+        req.rooms.forEach((r, ri) => {
+          this.#seats[si * RS + ri] = Math.max(0, s.room!.seats - r.seats) * req.weights.seats;
+        });
+    });
+  }
+
+  #w(series: number, name: SeriesWeight): number {
+    return this.#weights[series * SERIES_WEIGHTS.length + WEIGHT_SLOT[name]]!;
+  }
+
+  /** Sets every session's value (-1 = not placed) and rebuilds the counters. */
+  load(values: ArrayLike<number>): void {
+    this.#occ.fill(0);
+    this.#starts.fill(0);
+    this.#seriesDay.fill(0);
+    this.#seriesRoom.fill(0);
+    this.#value.fill(-1);
+    this.#clashes = 0;
+    for (let i = 0; i < this.#value.length; i++) {
+      const v = values[i] ?? -1;
+      if (v >= 0) this.#add(i, v);
+    }
+  }
+
+  /** Current value of a session (-1 = not placed). */
+  valueOf(session: number): number {
+    return this.#value[session]!;
+  }
+
+  /** Moves one session to `value` (-1 takes it out). */
+  set(session: number, value: number): void {
+    if (this.#value[session]! >= 0) this.#remove(session);
+    if (value >= 0) this.#add(session, value);
+  }
+
+  #add(i: number, v: number): void {
+    const sp = this.#space;
+    const s = sp.sessionSeries[i]!;
+    const ser = sp.request.series[s]!;
+    const c = sp.cellOf(v);
+    const C = this.#C;
+    for (const a of ser.attendees) {
+      this.#starts[a * C + c]!++;
+      for (let k = 0; k < ser.length; k++) if (this.#occ[a * C + c + k]!++ > 0) this.#clashes++;
+    }
+    this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!++;
+    this.#seriesRoom[s * this.#RS + sp.roomOf(v)]!++;
+    this.#value[i] = v;
+  }
+
+  #remove(i: number): void {
+    const sp = this.#space;
+    const v = this.#value[i]!;
+    const s = sp.sessionSeries[i]!;
+    const ser = sp.request.series[s]!;
+    const c = sp.cellOf(v);
+    const C = this.#C;
+    for (const a of ser.attendees) {
+      this.#starts[a * C + c]!--;
+      for (let k = 0; k < ser.length; k++) if (--this.#occ[a * C + c + k]! > 0) this.#clashes--;
+    }
+    this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!--;
+    this.#seriesRoom[s * this.#RS + sp.roomOf(v)]!--;
+    this.#value[i] = -1;
+  }
+
+  /** Cost of isolated meetings of one attendee on one day, by runs of back-to-back cells. */
+  #isolatedOn(a: number, day: number): number {
+    const sp = this.#space;
+    const C = this.#C;
+    const end = sp.dayEnd[day]!;
+    let cost = 0;
+    let runStarts = 0;
+    let inRun = false;
+    for (let c = sp.dayFirst[day]!; c < end; c++) {
+      const o = this.#occ[a * C + c]!;
+      if (o > 0 && inRun && sp.continues[c] === 1) {
+        runStarts += this.#starts[a * C + c]!;
+        continue;
+      }
+      if (inRun && runStarts === 1) cost++;
+      inRun = o > 0;
+      runStarts = inRun ? this.#starts[a * C + c]! : 0;
+    }
+    if (inRun && runStarts === 1) cost++;
+    return cost * this.#isolatedWeight;
+  }
+
+  #placedOf(s: number): number {
+    let n = 0;
+    for (let i = this.#space.seriesFirst[s]!; i < this.#space.seriesFirst[s + 1]!; i++)
+      if (this.#value[i]! >= 0) n++;
+    return n;
+  }
+
+  #spreadOf(s: number): number {
+    if (this.#placedOf(s) === 0) return 0;
+    let days = 0;
+    for (let d = 0; d < this.#D; d++) if (this.#seriesDay[s * this.#D + d]! > 0) days++;
+    return Math.max(0, this.#space.request.series[s]!.minDays - days) * this.#w(s, 'spread');
+  }
+
+  #roomStabilityOf(s: number): number {
+    if (this.#space.request.series[s]!.room === undefined) return 0;
+    let rooms = 0;
+    for (let r = 0; r < this.#RS; r++) if (this.#seriesRoom[s * this.#RS + r]! > 0) rooms++;
+    return Math.max(0, rooms - 1) * this.#w(s, 'roomStability');
+  }
+
+  #movesOf(s: number): number {
+    const last = this.#last[s]!;
+    if (last.length === 0) return 0;
+    const first = this.#space.seriesFirst[s]!;
+    const end = this.#space.seriesFirst[s + 1]!;
+    // matched = sum over distinct keys of min(this week's count, last week's count)
+    let matched = 0;
+    let placed = 0;
+    for (let i = first; i < end; i++) if (this.#value[i]! >= 0) placed++;
+    for (let k = 0; k < last.length; k++) {
+      const key = last[k]!;
+      if (key < 0 || last.indexOf(key) !== k) continue;
+      let lastCount = 0;
+      for (let j = k; j < last.length; j++) if (last[j] === key) lastCount++;
+      let now = 0;
+      for (let i = first; i < end; i++) if (this.#value[i] === key) now++;
+      matched += Math.min(now, lastCount);
+    }
+    return (Math.min(placed, last.length) - matched) * this.#w(s, 'moves');
+  }
+
+  #unaryOf(s: number, v: number): number {
+    const c = this.#space.cellOf(v);
+    const k = s * this.#C + c;
+    return (
+      this.#prefDays[k]! +
+      this.#prefHours[k]! +
+      this.#usual[k]! +
+      this.#rules[k]! +
+      this.#seats[s * this.#RS + this.#space.roomOf(v)]!
+    );
+  }
+
+  /** Cost a session would carry on its own at `value` (day, hour, usual-hours, rule and seat costs). */
+  unaryCost(session: number, value: number): number {
+    return this.#unaryOf(this.#space.sessionSeries[session]!, value);
+  }
+
+  #localOf(s: number, d0: number, d1: number): number {
+    let cost = this.#spreadOf(s) + this.#roomStabilityOf(s) + this.#movesOf(s);
+    if (this.#isolatedWeight > 0)
+      for (const a of this.#compact[s]!) {
+        if (d0 >= 0) cost += this.#isolatedOn(a, d0);
+        if (d1 >= 0 && d1 !== d0) cost += this.#isolatedOn(a, d1);
+      }
+    return cost;
+  }
+
+  /** Overlapping sessions of one attendee, counted per attendee-cell and extra session. */
+  clashes(): number {
+    return this.#clashes;
+  }
+
+  /**
+   * Change of the total cost if `session` took `value` (-1 = out), plus `clashWeight` per clash
+   * added; the state is left as it was.
+   */
+  delta(session: number, value: number, clashWeight = 0): number {
+    const old = this.#value[session]!;
+    if (old === value) return 0;
+    const sp = this.#space;
+    const s = sp.sessionSeries[session]!;
+    const cells = sp.request.cells;
+    const d0 = old >= 0 ? cells[sp.cellOf(old)]!.day : -1;
+    const d1 = value >= 0 ? cells[sp.cellOf(value)]!.day : -1;
+    const before =
+      this.#localOf(s, d0, d1) + (old >= 0 ? this.#unaryOf(s, old) : 0) + this.#clashes * clashWeight;
+    this.set(session, value);
+    const after =
+      this.#localOf(s, d0, d1) + (value >= 0 ? this.#unaryOf(s, value) : 0) + this.#clashes * clashWeight;
+    this.set(session, old);
+    return after - before;
+  }
+
+  /** The cost of the current plan by kind, computed from the counters. */
+  parts(): ScoreParts {
+    const sp = this.#space;
+    const req = sp.request;
+    let spread = 0;
+    let roomStability = 0;
+    let moves = 0;
+    let preferredDays = 0;
+    let preferredHours = 0;
+    let usualHours = 0;
+    let rules = 0;
+    let seats = 0;
+    let isolated = 0;
+    req.series.forEach((_, s) => {
+      spread += this.#spreadOf(s);
+      roomStability += this.#roomStabilityOf(s);
+      moves += this.#movesOf(s);
+    });
+    for (let i = 0; i < this.#value.length; i++) {
+      const v = this.#value[i]!;
+      if (v < 0) continue;
+      const s = sp.sessionSeries[i]!;
+      const k = s * this.#C + sp.cellOf(v);
+      preferredDays += this.#prefDays[k]!;
+      preferredHours += this.#prefHours[k]!;
+      usualHours += this.#usual[k]!;
+      rules += this.#rules[k]!;
+      seats += this.#seats[s * this.#RS + sp.roomOf(v)]!;
+    }
+    if (this.#isolatedWeight > 0)
+      req.attendees.forEach((a, ai) => {
+        if (a.compact !== true) return;
+        for (let d = 0; d < this.#D; d++) isolated += this.#isolatedOn(ai, d);
+      });
+    return {
+      spread,
+      isolated,
+      roomStability,
+      preferredDays,
+      preferredHours,
+      usualHours,
+      moves,
+      seats,
+      rules,
+    };
+  }
+
+  /** Total preference cost of the current plan. */
+  total(): number {
+    const p = this.parts();
+    return SCORE_PART_NAMES.reduce((sum, n) => sum + p[n], 0);
+  }
+}

@@ -1,0 +1,229 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { type WeekRequest, ZERO_WEIGHTS } from '../../../src/scheduling/week/week-request.ts';
+import { WeekScorer } from '../../../src/scheduling/week/week-scorer.ts';
+import { WeekSpace } from '../../../src/scheduling/week/week-space.ts';
+
+// Hand-computed costs on tiny weeks: 3 days x 4 contiguous one-hour cells (cell = day * 4 + hour).
+const HOUR = 3_600_000;
+const cells = Array.from({ length: 12 }, (_, c) => ({
+  start: Math.floor(c / 4) * 24 * HOUR + (c % 4) * HOUR,
+  end: Math.floor(c / 4) * 24 * HOUR + ((c % 4) + 1) * HOUR,
+  day: Math.floor(c / 4),
+}));
+const rooms = [
+  { id: 'small', seats: 2, features: [] },
+  { id: 'large', seats: 4, features: ['screen'] },
+];
+const NONE = rooms.length; // room slot "no room"
+const RS = rooms.length + 1;
+const v = (cell: number, room: number = NONE) => cell * RS + room;
+
+function request(over: Partial<WeekRequest>): WeekRequest {
+  return {
+    cells,
+    days: 3,
+    rooms,
+    attendees: [{ id: 'a', compact: true }, { id: 'b' }],
+    series: [],
+    weights: ZERO_WEIGHTS,
+    seatsHard: true,
+    ...over,
+  };
+}
+
+function score(req: WeekRequest, values: number[]) {
+  const scorer = new WeekScorer(new WeekSpace(req));
+  scorer.load(values);
+  return { parts: scorer.parts(), total: scorer.total(), clashes: scorer.clashes() };
+}
+
+describe('WeekScorer, hand-computed costs per preference kind', () => {
+  it('isolated meetings of an attendee who opted in cost one weight each', () => {
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, isolated: 2 },
+      series: [
+        { id: 'x', attendees: [0, 1], sessions: 1, minDays: 1, length: 1 },
+        { id: 'y', attendees: [0], sessions: 1, minDays: 1, length: 2 },
+      ],
+    });
+    // x at 0, y at 2-3 on day 0: a has two runs of one meeting each -> 2 x 2 = 4; b did not opt in
+    expect(score(req, [v(0), v(2)]).parts.isolated).toBe(4);
+    // y right after x (cells 1-2): one run holding two meetings -> 0
+    expect(score(req, [v(0), v(1)]).parts.isolated).toBe(0);
+    // different days -> both isolated again
+    expect(score(req, [v(0), v(5)]).parts.isolated).toBe(4);
+    // days do not join: x at the last cell of day 0, y at the first of day 1
+    expect(score(req, [v(3), v(4)]).parts.isolated).toBe(4);
+  });
+
+  it('spread costs its weight per day missing below minDays', () => {
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, spread: 5 },
+      series: [{ id: 'x', attendees: [0], sessions: 3, minDays: 3, length: 1 }],
+    });
+    expect(score(req, [v(0), v(1), v(2)]).parts.spread).toBe(10); // 1 day of 3
+    expect(score(req, [v(0), v(1), v(4)]).parts.spread).toBe(5); // 2 days
+    expect(score(req, [v(0), v(4), v(8)]).parts.spread).toBe(0);
+  });
+
+  it('room stability costs its weight per room beyond the first', () => {
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, roomStability: 1 },
+      series: [
+        { id: 'x', attendees: [0], sessions: 3, minDays: 1, length: 1, room: { seats: 1, features: [] } },
+      ],
+    });
+    expect(score(req, [v(0, 0), v(4, 0), v(8, 0)]).parts.roomStability).toBe(0);
+    expect(score(req, [v(0, 0), v(4, 1), v(8, 0)]).parts.roomStability).toBe(1);
+  });
+
+  it('preferred days and hours cost their weights per session outside them', () => {
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, preferredDays: 3, preferredHours: 7 },
+      series: [
+        {
+          id: 'x',
+          attendees: [0],
+          sessions: 2,
+          minDays: 1,
+          length: 1,
+          preferredDays: [true, false, false],
+          preferredStarts: cells.map((_, c) => c % 4 < 2),
+        },
+      ],
+    });
+    // cell 0: preferred day and hour; cell 6: day 1 (not preferred), hour 2 (not preferred)
+    const r = score(req, [v(0), v(6)]);
+    expect(r.parts.preferredDays).toBe(3);
+    expect(r.parts.preferredHours).toBe(7);
+    expect(r.total).toBe(10);
+  });
+
+  it('usual hours cost weight x hours x the attendee weight, per attendee', () => {
+    const offHours = cells.map((_, c) => (c % 4 === 3 ? 1 : 0));
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, usualHours: 1.5 },
+      attendees: [
+        { id: 'a', offHours, offHoursWeight: 2 },
+        { id: 'b', offHours },
+      ],
+      series: [{ id: 'x', attendees: [0, 1], sessions: 1, minDays: 1, length: 2 }],
+    });
+    // cells 2-3: one off-hours hour for a (weight 2) and for b (weight 1): 1.5 x (2 + 1) = 4.5
+    expect(score(req, [v(2)]).parts.usualHours).toBe(4.5);
+    expect(score(req, [v(1)]).parts.usualHours).toBe(0);
+  });
+
+  it('moves cost their weight per session not at last week start and room', () => {
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, moves: 4 },
+      series: [
+        { id: 'x', attendees: [0], sessions: 2, minDays: 1, length: 1, room: { seats: 1, features: [] } },
+      ],
+      lastWeek: [
+        { series: 'x', cell: 0, room: 'small' },
+        { series: 'x', cell: 4, room: 'small' },
+      ],
+    });
+    expect(score(req, [v(4, 0), v(0, 0)]).parts.moves).toBe(0);
+    expect(score(req, [v(0, 0), v(5, 0)]).parts.moves).toBe(4); // one moved in time
+    expect(score(req, [v(0, 1), v(4, 1)]).parts.moves).toBe(8); // both moved to another room
+  });
+
+  it('missing seats cost their weight per seat when seats are soft', () => {
+    const req = request({
+      weights: { ...ZERO_WEIGHTS, seats: 1 },
+      seatsHard: false,
+      series: [
+        { id: 'x', attendees: [0, 1], sessions: 1, minDays: 1, length: 1, room: { seats: 5, features: [] } },
+      ],
+    });
+    expect(score(req, [v(0, 0)]).parts.seats).toBe(3);
+    expect(score(req, [v(0, 1)]).parts.seats).toBe(1);
+  });
+
+  it('counts clashes of an attendee per cell and extra session', () => {
+    const req = request({
+      series: [
+        { id: 'x', attendees: [0], sessions: 1, minDays: 1, length: 2 },
+        { id: 'y', attendees: [0, 1], sessions: 1, minDays: 1, length: 2 },
+      ],
+    });
+    expect(score(req, [v(0), v(1)]).clashes).toBe(1);
+    expect(score(req, [v(0), v(0)]).clashes).toBe(2);
+    expect(score(req, [v(0), v(2)]).clashes).toBe(0);
+  });
+});
+
+describe('WeekScorer.delta', () => {
+  it('equals the change of the full cost for random plans and moves', () => {
+    const req = request({
+      weights: {
+        spread: 5,
+        isolated: 2,
+        roomStability: 1,
+        preferredDays: 3,
+        preferredHours: 2,
+        usualHours: 1,
+        moves: 4,
+        seats: 1,
+        rules: 1,
+      },
+      seatsHard: false,
+      attendees: [
+        { id: 'a', compact: true, offHours: cells.map((_, c) => (c % 4 === 0 ? 1 : 0)) },
+        { id: 'b', compact: true, ruleCost: cells.map((_, c) => c % 3) },
+        { id: 'c' },
+      ],
+      series: [
+        { id: 'x', attendees: [0, 1], sessions: 2, minDays: 2, length: 1, room: { seats: 3, features: [] } },
+        {
+          id: 'y',
+          attendees: [0, 2],
+          sessions: 2,
+          minDays: 2,
+          length: 2,
+          preferredDays: [false, true, true],
+        },
+        {
+          id: 'z',
+          attendees: [1, 2],
+          sessions: 1,
+          minDays: 1,
+          length: 1,
+          preferredStarts: cells.map((_, c) => c % 2 === 0),
+        },
+      ],
+      lastWeek: [
+        { series: 'x', cell: 1, room: 'small' },
+        { series: 'y', cell: 4, room: null },
+      ],
+    });
+    const space = new WeekSpace(req);
+    const cand = space.candidates;
+    const pick = (s: number) => fc.integer({ min: 0, max: cand[s]!.length - 1 }).map((k) => cand[s]![k]!);
+    fc.assert(
+      fc.property(
+        fc.tuple(pick(0), pick(0), pick(1), pick(1), pick(2)),
+        fc.integer({ min: 0, max: 4 }),
+        fc.integer({ min: 0, max: 1000 }),
+        (plan, session, k) => {
+          const s = space.sessionSeries[session]!;
+          const next = cand[s]![k % cand[s]!.length]!;
+          const scorer = new WeekScorer(space);
+          scorer.load(plan);
+          const before = scorer.total() + scorer.clashes() * 100;
+          const d = scorer.delta(session, next, 100);
+          // delta leaves the state unchanged
+          expect(scorer.total() + scorer.clashes() * 100).toBeCloseTo(before, 9);
+          const moved = [...plan];
+          moved[session] = next;
+          scorer.load(moved);
+          expect(scorer.total() + scorer.clashes() * 100 - before).toBeCloseTo(d, 9);
+        },
+      ),
+      { numRuns: 300, seed: 42 },
+    );
+  });
+});
