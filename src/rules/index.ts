@@ -26,5 +26,17 @@ export {
 } from './rule.ts';
 export { type RuleConfirmation, type RuleField, ruleConfirmation, ruleFields } from './rule-confirmation.ts';
 export { type RuleEffectContext, ruleEffect } from './rule-effect.ts';
+export {
+  describeSeries,
+  type ParsedSeries,
+  parseSeriesSentence,
+  type SeriesDraft,
+  type SeriesGroup,
+  type SeriesPerson,
+  type SeriesRoom,
+  type SeriesRoomDraft,
+  type SeriesSentenceOptions,
+} from './series-sentence.ts';
+export { WEEKDAY_NAMES, type WeekdayName } from './series-sentence-words.ts';
 export { EXAMPLE_RULES } from './suggestions.ts';
 export { CITY_ZONES } from './zone-names.ts';
