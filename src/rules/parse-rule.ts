@@ -275,13 +275,13 @@ function scanAmounts(scan: Scan, found: Found): void {
   const minutesOf = (num: string, unit: string): number => parseNumber(num) * unitMinutes(unit);
   // notice: "at least 24 hours notice", "a day's notice", "less than 2 hours ahead"
   scan.take(
-    `\\b(?:at\\s+least\\s+|with\\s+)?(?:a\\s+minimum\\s+of\\s+)?${NUM}\\s+${UNIT}(?:'s|')?\\s+(?:of\\s+)?(?:advance\\s+)?(?:notice|warning|in\\s+advance|ahead(?:\\s+of\\s+time)?)\\b`,
+    `\\b(?:less|sooner|fewer)\\s+than\\s+${NUM}\\s+${UNIT}\\s+(?:ahead|in\\s+advance|away|from\\s+now|before(?:\\s+(?:it|they)\\s+starts?)?)\\b`,
     (m) => {
       found.notice = minutesOf(m[1]!, m[2]!);
     },
   );
   scan.take(
-    `\\b(?:less|sooner|fewer)\\s+than\\s+${NUM}\\s+${UNIT}\\s+(?:ahead|in\\s+advance|away|from\\s+now|before(?:\\s+(?:it|they)\\s+starts?)?)\\b`,
+    `\\b(?:at\\s+least\\s+|with\\s+)?(?:a\\s+minimum\\s+of\\s+)?${NUM}\\s+${UNIT}(?:'s|')?\\s+(?:of\\s+)?(?:advance\\s+)?(?:notice|warning|in\\s+advance|ahead(?:\\s+of\\s+time)?)\\b`,
     (m) => {
       found.notice = minutesOf(m[1]!, m[2]!);
     },
@@ -291,13 +291,13 @@ function scanAmounts(scan: Scan, found: Found): void {
   });
   // gaps: "at least 15 minutes between meetings", "a 10 minute break between meetings"
   scan.take(
-    `\\b(?:at\\s+least\\s+|leave\\s+|keep\\s+)?(?:a\\s+)?${NUM}[-\\s]+${UNIT}(?:\\s+(?:of\\s+)?(?:gap|break|buffer|breather|pause|free\\s+time))?\\s+(?:between|in\\s+between|after|around)\\s+(?:each\\s+|two\\s+|my\\s+|consecutive\\s+)?(?:meetings?|calls?)\\b`,
+    `\\b(?:a\\s+)?(?:gap|break|buffer|pause)\\s+of\\s+(?:at\\s+least\\s+)?${NUM}\\s+${UNIT}(?:\\s+between\\s+(?:meetings?|calls?))?`,
     (m) => {
       found.gap = minutesOf(m[1]!, m[2]!);
     },
   );
   scan.take(
-    `\\b(?:a\\s+)?(?:gap|break|buffer|pause)\\s+of\\s+(?:at\\s+least\\s+)?${NUM}\\s+${UNIT}(?:\\s+between\\s+(?:meetings?|calls?))?`,
+    `\\b(?:at\\s+least\\s+|leave\\s+|keep\\s+)?(?:a\\s+)?${NUM}[-\\s]+${UNIT}(?:\\s+(?:of\\s+)?(?:gap|break|buffer|breather|pause|free\\s+time))?\\s+(?:between|in\\s+between|after|around)\\s+(?:each\\s+|two\\s+|my\\s+|consecutive\\s+)?(?:meetings?|calls?)\\b`,
     (m) => {
       found.gap = minutesOf(m[1]!, m[2]!);
     },
@@ -592,6 +592,17 @@ function scanChrono(scan: Scan, ctx: RuleContext, found: Found): void {
   const results = chrono.parse(scan.work, ref, { forwardDate: true });
   for (const r of results) {
     if (!RELATIVE_DATE.test(r.text)) continue;
+    const slash = /\b(\d{1,2})[/.](\d{1,2})\b/.exec(r.text);
+    if (slash !== null && Number(slash[1]) <= 12 && Number(slash[2]) <= 12 && slash[1] !== slash[2]) {
+      scan.issues.push({
+        code: 'rule_ambiguous',
+        path: ['dates'],
+        message: `'${r.text}' could be read day-first or month-first; write the date as YYYY-MM-DD or with the month's name`,
+        suggestions: [],
+      });
+      scan.blank(r.index, r.text.length);
+      continue;
+    }
     const toDate = (c: chrono.ParsedComponents): Temporal.PlainDate =>
       Temporal.PlainDate.from({ year: c.get('year')!, month: c.get('month')!, day: c.get('day')! });
     const start = toDate(r.start);
@@ -677,7 +688,14 @@ function assemble(text: string, f: Found): RuleBody | RuleIssue {
       `'${text}' names more than one time range (${f.clocks.map((c) => `'${c.text}'`).join(', ')}); say one range per rule`,
       f.clocks.map((c) => `No meetings ${c.text}`),
     );
-  if (f.parts.size > 1 || (f.parts.size === 1 && f.clocks.length === 1))
+  if (f.parts.size === 1 && f.clocks.length === 1)
+    return issue(
+      'rule_ambiguous',
+      'times',
+      `'${text}' names both a part of the day and a clock time ('${f.clocks[0]!.text}'); say one of them`,
+      [`No meetings in the ${[...f.parts][0]!}`, `No meetings ${f.clocks[0]!.text}`],
+    );
+  if (f.parts.size > 1)
     return issue(
       'rule_ambiguous',
       'times',
