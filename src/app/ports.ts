@@ -3,6 +3,44 @@
 
 // --- store (bookings, holds, deliveries, audit) ---
 
+/**
+ * Holds, bookings and cancellations; SqlBookingStore implements it. The record types live with the
+ * store (src/store/booking-records.ts) so the store does not import the app layer.
+ */
+export interface BookingStore {
+  /** Holds or books an option in one write transaction; the same idempotency key gives the same booking. */
+  reserve(
+    input: import('../store/index.ts').ReserveInput,
+  ): Promise<import('../store/index.ts').ReserveOutcome>;
+  /** Cancels a booking or releases a hold, raising its SEQUENCE. */
+  cancel(
+    id: string,
+    options: { readonly now: number; readonly reason?: string },
+  ): Promise<import('../store/index.ts').CancelOutcome>;
+  /** One booking by id, in any state. */
+  get(id: string): Promise<import('../store/index.ts').BookingRecord | undefined>;
+  /** Releases holds whose expiry is at or before `now`; returns how many. */
+  releaseExpiredHolds(now: number): Promise<number>;
+  /** Bookings of one person or room overlapping a window. */
+  listFor(
+    who: { readonly kind: 'person' | 'room'; readonly id: string },
+    window: { readonly start: number; readonly end: number },
+    states?: readonly ('held' | 'booked' | 'cancelled')[],
+  ): Promise<import('../store/index.ts').BookingRecord[]>;
+}
+
+/** The audit log: who did what to which thing, and how it ended. SqlLedgerStore implements it. */
+export interface AuditLog {
+  /** Appends one entry. */
+  audit(entry: import('../store/index.ts').AuditEntry): Promise<void>;
+}
+
+/** Who a subscription-feed token opens; SqlLedgerStore implements it. */
+export interface SubscriptionTokens {
+  /** The owner of a live token, or undefined. */
+  lookupSubscriptionToken(token: string): Promise<import('../store/index.ts').SubscriptionOwner | undefined>;
+}
+
 // --- calendar feeds ---
 
 // --- chat ---

@@ -46,6 +46,11 @@ export class SqlLedgerStore {
     return Number(res.numInsertedOrUpdatedRows ?? 0n) === 1;
   }
 
+  /** The DeliveryLog port: true the first time a key is seen, false for every retry. */
+  claim(key: string, atMs: number): Promise<boolean> {
+    return this.recordDelivery(key, atMs);
+  }
+
   /** Forgets deliveries older than `before`; returns how many. */
   async pruneDeliveries(before: number): Promise<number> {
     const res = await this.#handle.db.deleteFrom('delivery').where('at_ms', '<', before).executeTakeFirst();
