@@ -18,6 +18,8 @@ export interface CliCommand {
 const COMMANDS: Readonly<Record<string, { summary: string; load: () => Promise<{ command: CliCommand }> }>> =
   {
     // one line per verb; keep alphabetical
+    console: { summary: 'chat in the terminal (pipes work)', load: () => import('./commands/console.ts') },
+    start: { summary: 'run the chat app (Slack or console)', load: () => import('./commands/start.ts') },
   };
 
 function version(): string {
