@@ -1,1 +1,30 @@
 // Public surface of src/app: named exports only, no `export *`.
+
+export {
+  type BookedValue,
+  type BookingDeps,
+  type BookingIssue,
+  type BookingOptions,
+  type BookingResult,
+  BookingService,
+  type BusyOf,
+  type DirectChoice,
+  directKey,
+  type InviteSettings,
+  LOCAL_OPERATOR,
+  type OptionChoice,
+  optionKey,
+} from './book.ts';
+export { InMemoryRuleStore } from './in-memory-rule-store.ts';
+export type { RuleStore, StoredRule } from './ports.ts';
+export {
+  forgetRule,
+  listRules,
+  previewRule,
+  type RuleActor,
+  type RuleDeps,
+  type RulePreviewData,
+  type RuleResult,
+  ruleOwnerId,
+  saveRule,
+} from './rules.ts';

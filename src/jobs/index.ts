@@ -1,1 +1,7 @@
 // Public surface of src/jobs: named exports only, no `export *`.
+export {
+  type HoldReleaser,
+  type HoldSweeper,
+  type HoldSweeperOptions,
+  startHoldSweeper,
+} from './hold-sweeper.ts';
