@@ -41,6 +41,32 @@ export interface SubscriptionTokens {
   lookupSubscriptionToken(token: string): Promise<import('../store/index.ts').SubscriptionOwner | undefined>;
 }
 
+// --- rules ---
+
+/**
+ * One saved rule. `ownerId` is whom it binds: a person id, or `room:<id>` / `group:<id>` for rooms
+ * and groups (see ruleOwnerId in src/app/rules.ts).
+ */
+export interface StoredRule {
+  readonly id: string;
+  readonly ownerId: string;
+  readonly rule: import('../rules/index.ts').Rule;
+  /** The normalized sentence shown when the rule was confirmed. */
+  readonly text: string;
+  /** When it was saved, epoch ms. */
+  readonly createdAt: number;
+}
+
+/** Saved rules; InMemoryRuleStore implements it for tests and the console, the store an SQL one. */
+export interface RuleStore {
+  /** The rules of one owner, oldest first. */
+  list(ownerId: string): Promise<readonly StoredRule[]>;
+  /** Saves a rule; its id is new. */
+  add(rule: StoredRule): Promise<void>;
+  /** Removes one rule of an owner; false when that owner has no rule with that id. */
+  remove(ownerId: string, ruleId: string): Promise<boolean>;
+}
+
 // --- calendar feeds ---
 
 // --- chat ---
@@ -86,4 +112,17 @@ export interface ChatTransport {
 export interface DeliveryLog {
   /** True the first time a key is seen, false on every later call with the same key. */
   claim(key: string, atMs: number): Promise<boolean>;
+}
+
+// --- week plan (fairness history) ---
+
+/** Off-hours tallies per person and ISO week, for fair rotation; SqlLedgerStore implements it. */
+export interface FairnessLedger {
+  /** Adds `count` (may be negative, to correct a re-planned week) to a person's tally for a week. */
+  addOffHours(person: string, isoWeek: string, count: number): Promise<void>;
+  /** Tallies of some people in some weeks; weeks without a row are absent. */
+  offHours(
+    people: readonly string[],
+    weeks: readonly string[],
+  ): Promise<{ person: string; isoWeek: string; count: number }[]>;
 }
