@@ -18,7 +18,13 @@ export interface CliCommand {
 const COMMANDS: Readonly<Record<string, { summary: string; load: () => Promise<{ command: CliCommand }> }>> =
   {
     // one line per verb; keep alphabetical
+    book: { summary: 'book a time directly (admins and scripts)', load: () => import('./commands/book.ts') },
+    cancel: { summary: 'cancel a booking or release a hold', load: () => import('./commands/cancel.ts') },
     console: { summary: 'chat in the terminal (pipes work)', load: () => import('./commands/console.ts') },
+    rule: {
+      summary: 'read a rule in plain words and show its structure',
+      load: () => import('./commands/rule.ts'),
+    },
     start: { summary: 'run the chat app (Slack or console)', load: () => import('./commands/start.ts') },
   };
 
