@@ -15,8 +15,14 @@ export {
   type OptionChoice,
   optionKey,
 } from './book.ts';
+export {
+  type FairnessOptions,
+  fairnessWeightsFor,
+  InMemoryFairnessLedger,
+  recordWeekOffHours,
+} from './fairness.ts';
 export { InMemoryRuleStore } from './in-memory-rule-store.ts';
-export type { RuleStore, StoredRule } from './ports.ts';
+export type { FairnessLedger, RuleStore, StoredRule } from './ports.ts';
 export {
   forgetRule,
   listRules,
