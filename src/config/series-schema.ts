@@ -118,6 +118,8 @@ export const weekPlanSettingsSchema = z
     step: z.number().int().min(5).max(240).default(30),
     /** Whether too few seats is a hard rule; when false, each missing seat costs `weights.seats`. @default true */
     seatsHard: z.boolean().default(true),
+    /** Minutes at each end of a working day that count as outside someone's usual hours. @default 60 */
+    usualEdgeMinutes: z.number().int().min(0).max(240).default(60),
     /** People and groups who would like their meetings of a day back to back (no isolated ones). @default [] */
     compact: z.array(z.string().min(1)).default([]),
     weights: z

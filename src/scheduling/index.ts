@@ -34,3 +34,17 @@ export type {
   SchedulingRoom,
   ScorePart,
 } from './types.ts';
+export {
+  type PastSession,
+  type PlacedSession,
+  type PlanWeekOptions,
+  planWeek,
+  type ScoreParts,
+  type UnplacedSeries,
+  type WeekBlocker,
+  type WeekPlan,
+  type WeekProgress,
+  type WeekRequest,
+  type WorkspaceWeek,
+  workspaceWeek,
+} from './week/index.ts';
