@@ -12,6 +12,7 @@ export {
   migrateStore,
   type OpenStoreOptions,
   openStore,
+  openStoreFromEnv,
   parseStoreLocation,
   type StoreHandle,
   type StoreLocation,

@@ -143,3 +143,15 @@ export async function writeTransaction<T>(
     }
   });
 }
+
+/**
+ * Opens the store named by SLOTWRIGHT_DATABASE_URL in `env`, or the default SQLite file
+ * `data/slotwright.sqlite` under `cwd` (the folder is created on first run).
+ */
+export async function openStoreFromEnv(
+  env: Readonly<Record<string, string | undefined>>,
+  cwd: string,
+  options: OpenStoreOptions = {},
+): Promise<StoreHandle> {
+  return openStore(parseStoreLocation(env.SLOTWRIGHT_DATABASE_URL, cwd), options);
+}
