@@ -10,11 +10,15 @@ export {
   DEFAULT_WORKING_HOURS,
   describeWeeklyHours,
   formatDailyRange,
+  isoWeekday,
+  nextDate,
   parseDailyRange,
   WEEKDAY_KEYS,
   type WeekdayKey,
   type WeeklyHours,
   workingIntervals,
+  type ZoneClock,
+  zoneClock,
 } from './working-hours.ts';
 export {
   addDays,

@@ -1,6 +1,6 @@
+import { Temporal } from 'temporal-polyfill';
 import type { Interval } from './interval.ts';
 import { mergeIntervals } from './interval.ts';
-import { addDays, instantToZoned, weekdayOf, zonedToInstant } from './zoned.ts';
 
 /** Weekday keys as written in a workspace, Monday first (index + 1 = ISO weekday). */
 export const WEEKDAY_KEYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
@@ -73,25 +73,108 @@ export function describeWeeklyHours(hours: WeeklyHours): string {
   return days.map((d) => `${d} ${text(d)}`).join('; ');
 }
 
+const DAY_MS = 86_400_000;
+
+/**
+ * Wall-clock arithmetic for one zone over one stretch of time, with the zone's UTC offsets and
+ * transitions read from Temporal once (a handful of calls) instead of once per local date: per-date
+ * Temporal calls dominate model building otherwise. Agrees with zonedToInstant / instantToZoned inside
+ * the stretch it was made for (and two days either side).
+ */
+export interface ZoneClock {
+  readonly zone: string;
+  /** UTC offset in ms at an instant (local = UTC + offset). */
+  offsetAt(instant: number): number;
+  /** Instant of a local date and minutes since local midnight; gaps move forward, repeats take the first (RFC 5545 3.3.5). */
+  toInstant(date: string, minutes: number): number;
+  /** Local date `YYYY-MM-DD` of an instant. */
+  dateOf(instant: number): string;
+}
+
+function civil(date: string): number {
+  return Date.UTC(Number(date.slice(0, 4)), Number(date.slice(5, 7)) - 1, Number(date.slice(8, 10)));
+}
+
+function isoDate(utcMidnight: number): string {
+  return new Date(utcMidnight).toISOString().slice(0, 10);
+}
+
+/** A ZoneClock valid over `span` (plus two days either side). */
+export function zoneClock(zone: string, span: Interval): ZoneClock {
+  const lo = span.start - 2 * DAY_MS;
+  const hi = span.end + 2 * DAY_MS;
+  let z = Temporal.Instant.fromEpochMilliseconds(lo).toZonedDateTimeISO(zone);
+  const from: number[] = [Number.NEGATIVE_INFINITY];
+  const offset: number[] = [z.offsetNanoseconds / 1e6];
+  for (;;) {
+    const next = z.getTimeZoneTransition('next');
+    if (next === null || next.epochMilliseconds > hi) break;
+    from.push(next.epochMilliseconds);
+    offset.push(next.offsetNanoseconds / 1e6);
+    z = next;
+  }
+  const offsetAt = (t: number): number => {
+    let i = from.length - 1;
+    while (i > 0 && from[i]! > t) i--;
+    return offset[i]!;
+  };
+  return {
+    zone,
+    offsetAt,
+    toInstant(date, minutes) {
+      const wall = civil(date) + minutes * 60_000;
+      const before = offsetAt(wall - DAY_MS);
+      const after = offsetAt(wall + DAY_MS);
+      const c1 = wall - before;
+      const c2 = wall - after;
+      const ok1 = offsetAt(c1) === before;
+      const ok2 = offsetAt(c2) === after;
+      if (ok1 && ok2) return Math.min(c1, c2);
+      if (ok1) return c1;
+      if (ok2) return c2;
+      return c1; // in a gap: the earlier offset lands after the gap, as 'compatible' disambiguation does
+    },
+    dateOf(t) {
+      return isoDate(Math.floor((t + offsetAt(t)) / DAY_MS) * DAY_MS);
+    },
+  };
+}
+
+/** The date `days` after `date`, without Temporal (plain civil-day arithmetic). */
+export function nextDate(date: string, days = 1): string {
+  return isoDate(civil(date) + days * DAY_MS);
+}
+
+/** ISO weekday (1 = Monday .. 7 = Sunday) of a civil date. */
+export function isoWeekday(date: string): number {
+  const d = new Date(civil(date)).getUTCDay();
+  return d === 0 ? 7 : d;
+}
+
 /**
  * The UTC intervals of weekly local hours that overlap a window, clipped to it. Each local date is
  * turned into instants in the zone on its own, so a daylight-saving change moves the UTC times and
  * keeps the local ones (09:00 stays 09:00 on the wall clock on both sides of the change).
  */
-export function workingIntervals(hours: WeeklyHours, zone: string, window: Interval): Interval[] {
+export function workingIntervals(
+  hours: WeeklyHours,
+  zone: string,
+  window: Interval,
+  clock: ZoneClock = zoneClock(zone, window),
+): Interval[] {
   if (window.end <= window.start) return [];
   // one day of slack each side: the window edges can fall on another local date than in UTC
-  let date = addDays(instantToZoned(window.start, zone).date, -1);
-  const last = addDays(instantToZoned(window.end, zone).date, 1);
+  let date = nextDate(clock.dateOf(window.start), -1);
+  const last = nextDate(clock.dateOf(window.end), 1);
   const out: Interval[] = [];
   while (date <= last) {
-    const key = WEEKDAY_KEYS[weekdayOf(date) - 1]!;
+    const key = WEEKDAY_KEYS[isoWeekday(date) - 1]!;
     for (const r of hours[key] ?? []) {
-      const start = Math.max(window.start, zonedToInstant(date, r.start, zone));
-      const end = Math.min(window.end, zonedToInstant(date, r.end, zone));
+      const start = Math.max(window.start, clock.toInstant(date, r.start));
+      const end = Math.min(window.end, clock.toInstant(date, r.end));
       if (end > start) out.push({ start, end });
     }
-    date = addDays(date, 1);
+    date = nextDate(date, 1);
   }
   return mergeIntervals(out);
 }

@@ -5,7 +5,9 @@ import {
   describeWeeklyHours,
   parseDailyRange,
   workingIntervals,
+  zoneClock,
 } from '../../src/time/working-hours.ts';
+import { addDays, instantToZoned, zonedToInstant } from '../../src/time/zoned.ts';
 
 const iso = (ms: number) => new Date(ms).toISOString();
 
@@ -100,5 +102,32 @@ describe('describeWeeklyHours', () => {
     expect(describeWeeklyHours({ mon: [{ start: 540, end: 720 }], tue: [{ start: 600, end: 1020 }] })).toBe(
       'mon 09:00-12:00; tue 10:00-17:00',
     );
+  });
+});
+
+describe('zoneClock agrees with Temporal', () => {
+  // Compared with zonedToInstant / instantToZoned (Temporal, IANA rules) around the 2026 changes:
+  // Halifax 2026-03-08 and 2026-11-01, Lisbon 2026-03-29 and 2026-10-25, Auckland 2026-04-05 and 2026-09-27.
+  const cases: [string, string][] = [
+    ['America/Halifax', '2026-03-08'],
+    ['America/Halifax', '2026-11-01'],
+    ['Europe/Lisbon', '2026-03-29'],
+    ['Europe/Lisbon', '2026-10-25'],
+    ['Pacific/Auckland', '2026-04-05'],
+    ['Pacific/Auckland', '2026-09-27'],
+    ['Asia/Kathmandu', '2026-06-01'],
+  ];
+  it.each(cases)('%s around %s, every 15 minutes of four days, including gaps and repeats', (zone, day) => {
+    const mid = Date.parse(`${day}T12:00:00Z`);
+    const clock = zoneClock(zone, { start: mid - 2 * 86_400_000, end: mid + 2 * 86_400_000 });
+    for (let d = -1; d <= 1; d++) {
+      const date = addDays(day, d);
+      for (let m = 0; m < 1440; m += 15) expect(clock.toInstant(date, m)).toBe(zonedToInstant(date, m, zone));
+    }
+    for (let t = mid - 2 * 86_400_000; t < mid + 2 * 86_400_000; t += 15 * 60_000) {
+      const r = instantToZoned(t, zone);
+      expect(clock.dateOf(t)).toBe(r.date);
+      expect(clock.offsetAt(t)).toBe(r.offsetMinutes * 60_000);
+    }
   });
 });
