@@ -13,3 +13,12 @@ export {
   type WeekdayCode,
 } from './invite.ts';
 export { vtimezoneFor } from './invite-vtimezone.ts';
+export {
+  type FeedBooking,
+  type FeedOwner,
+  newSubscriptionToken,
+  type SubscriptionFeedOptions,
+  type SubscriptionHandlerDeps,
+  subscriptionFeed,
+  subscriptionHandler,
+} from './subscription.ts';
