@@ -28,10 +28,29 @@ function spanMinutes(times: TimeSpan | undefined, parts: DayParts): { from: numb
   return times;
 }
 
+/** Constant-offset stretches of a zone covering [from, to): each with its UTC offset in ms. */
+function offsetSegments(
+  zone: string,
+  from: number,
+  to: number,
+): { start: number; end: number; offset: number }[] {
+  const out: { start: number; end: number; offset: number }[] = [];
+  let cursor = Temporal.Instant.fromEpochMilliseconds(from).toZonedDateTimeISO(zone);
+  while (cursor.epochMilliseconds < to) {
+    const next = cursor.getTimeZoneTransition('next');
+    const end = next === null ? to : Math.min(to, next.epochMilliseconds);
+    out.push({ start: cursor.epochMilliseconds, end, offset: cursor.offsetNanoseconds / 1_000_000 });
+    if (next === null) break;
+    cursor = next;
+  }
+  return out;
+}
+
 /**
- * One local stretch per calendar day of `zone` over the window. Each end is placed with
- * zonedToInstant, so "before 10am" stays 10:00 on the wall clock on DST days (the day is 23 or 25
- * hours long, and the stretch from midnight shrinks or grows by the hour).
+ * The instants of each calendar day of `zone` whose wall-clock reading falls in [span.from, span.to).
+ * Worked out per constant-offset stretch, so on DST days "before 10am" still ends at 10:00 local, a
+ * range inside the spring-forward gap starts where the clock resumes (as RFC 5545 section 3.3.5 moves
+ * such times forward), and a repeated hour in the autumn is covered both times it is on the clock.
  */
 function localStretches(
   zone: string,
@@ -43,9 +62,16 @@ function localStretches(
   const out: Interval[] = [];
   const first = addDays(instantToZoned(from, zone).date, -1);
   const last = addDays(instantToZoned(to, zone).date, 1);
+  const segments = offsetSegments(zone, zonedToInstant(first, 0, zone), zonedToInstant(last, 1440, zone));
   for (let date = first; date <= last; date = addDays(date, 1)) {
     if (!keep(date)) continue;
-    out.push({ start: zonedToInstant(date, span.from, zone), end: zonedToInstant(date, span.to, zone) });
+    const [y, m, d] = date.split('-').map(Number) as [number, number, number];
+    const wallMidnight = Date.UTC(y, m - 1, d);
+    for (const seg of segments) {
+      const start = Math.max(seg.start, wallMidnight + span.from * 60_000 - seg.offset);
+      const end = Math.min(seg.end, wallMidnight + span.to * 60_000 - seg.offset);
+      if (end > start) out.push({ start, end });
+    }
   }
   return clip(out, from, to);
 }

@@ -81,15 +81,19 @@ describe('ruleEffect across DST changes', () => {
     ]);
   });
 
-  it('takes the first of the repeated hour in Halifax', () => {
+  it('covers the repeated hour in Halifax both times it is on the clock', () => {
     const e = ruleEffect(rule('no meetings before 1:30am', 'America/Halifax'), {
       zone: 'America/Halifax',
       from: iso('2026-11-01T03:00:00Z'),
       to: iso('2026-11-01T12:00:00Z'),
       now: 0,
     });
-    // 01:30 happens at 04:30Z (ADT) and again at 05:30Z (AST); RFC 5545 3.3.5 takes the first
-    expect(e.avoid).toEqual([iv('2026-11-01T03:00:00Z', '2026-11-01T04:30:00Z')]);
+    // 00:00-01:30 ADT is 03:00Z-04:30Z; at 05:00Z the clock falls back to 01:00 AST and reads
+    // 01:00-01:30 again until 05:30Z, which is also before 1:30am on the wall clock
+    expect(e.avoid).toEqual([
+      iv('2026-11-01T03:00:00Z', '2026-11-01T04:30:00Z'),
+      iv('2026-11-01T05:00:00Z', '2026-11-01T05:30:00Z'),
+    ]);
   });
 
   it('places Sunday mornings in Halifax on standard time after the change', () => {
