@@ -26,6 +26,7 @@ const COMMANDS: Readonly<Record<string, { summary: string; load: () => Promise<{
       load: () => import('./commands/rule.ts'),
     },
     start: { summary: 'run the chat app (Slack or console)', load: () => import('./commands/start.ts') },
+    week: { summary: 'plan a week of recurring meetings together', load: () => import('./commands/week.ts') },
   };
 
 function version(): string {

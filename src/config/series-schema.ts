@@ -78,6 +78,8 @@ export const seriesSchema = z
         /** Seats needed; the attendee count when absent. */
         seats: z.number().int().min(1).optional(),
         features: z.array(z.string().min(1)).default([]),
+        /** Only these rooms (ids), e.g. the rooms of the attendees' office; any room when absent. */
+        only: z.array(z.string().min(1)).min(1).optional(),
       })
       .strict()
       .optional(),

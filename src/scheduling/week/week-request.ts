@@ -75,7 +75,12 @@ export interface WeekSeries {
   /** Per start cell: true when a session starting there lies in the preferred hours. No hour preference when absent. */
   readonly preferredStarts?: readonly boolean[];
   /** Room needs; the sessions take no room when absent. */
-  readonly room?: { readonly seats: number; readonly features: readonly string[] };
+  readonly room?: {
+    readonly seats: number;
+    readonly features: readonly string[];
+    /** Only these room ids; any room with the features when absent. */
+    readonly only?: readonly string[];
+  };
   /** Per-series overrides of the request's weights. */
   readonly weights?: Partial<
     Pick<

@@ -74,6 +74,7 @@ export class WeekSpace {
     const out: number[] = [];
     this.request.rooms.forEach((r, i) => {
       if (this.request.seatsHard && r.seats < need.seats) return;
+      if (need.only !== undefined && !need.only.includes(r.id)) return;
       if (need.features.every((f) => r.features.includes(f))) out.push(i);
     });
     return out;

@@ -190,6 +190,15 @@ export function workspaceWeek(input: WorkspaceWeekInput): Result<WorkspaceWeek> 
       const ga = groupAttendee.get(id);
       if (ga !== undefined) extra.add(ga);
     });
+    const roomIds = new Set(context.rooms.map((r) => r.id));
+    s.room?.only?.forEach((id, k) => {
+      if (!roomIds.has(id))
+        issues.push({
+          code: 'unknown_room',
+          path: ['series', si, 'room', 'only', k],
+          message: `series '${s.id}' names room '${id}', which is not under rooms:; add it or fix the id`,
+        });
+    });
     const length = Math.ceil(s.minutes / step);
     const seriesZone = s.zone ?? zone;
     const allowed: boolean[] = [];
@@ -224,7 +233,13 @@ export function workspaceWeek(input: WorkspaceWeekInput): Result<WorkspaceWeek> 
       ...(s.preferredHours === undefined ? {} : { preferredStarts }),
       ...(s.room === undefined
         ? {}
-        : { room: { seats: s.room.seats ?? Math.max(1, memberList.length), features: s.room.features } }),
+        : {
+            room: {
+              seats: s.room.seats ?? Math.max(1, memberList.length),
+              features: s.room.features,
+              ...(s.room.only === undefined ? {} : { only: s.room.only }),
+            },
+          }),
       ...(s.weights === undefined ? {} : { weights: stripUndefined(s.weights) }),
     });
   });
