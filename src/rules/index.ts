@@ -39,4 +39,10 @@ export {
 } from './series-sentence.ts';
 export { WEEKDAY_NAMES, type WeekdayName } from './series-sentence-words.ts';
 export { EXAMPLE_RULES } from './suggestions.ts';
+export {
+  type OwnedRule,
+  parseWorkspaceRules,
+  type RuleOwner,
+  type WorkspaceRuleContext,
+} from './workspace-rules.ts';
 export { CITY_ZONES } from './zone-names.ts';
