@@ -5,3 +5,29 @@ export {
   type HoldSweeperOptions,
   startHoldSweeper,
 } from './hold-sweeper.ts';
+export {
+  advisoryKey,
+  type JobRunTables,
+  PgRunOnceCoordinator,
+  type PgRunOnceOptions,
+  type RunOnceCoordinator,
+  type RunOnceOutcome,
+  SingleProcessCoordinator,
+} from './run-once.ts';
+export {
+  startWeekPostJob,
+  WEEK_POST_JOB,
+  type WeekPlanPoster,
+  type WeekPostJob,
+  type WeekPostJobOptions,
+  type WeekPostRequest,
+} from './week-post.ts';
+export {
+  nextWeekPostTimes,
+  parseWeekPostTime,
+  type WeekPostSettings,
+  type WeekPostTime,
+  weekAnnouncedAt,
+  weekPostCron,
+  weekPostSettingsSchema,
+} from './week-post-schedule.ts';
