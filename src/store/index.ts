@@ -27,6 +27,7 @@ export {
   SqlLedgerStore,
   type SubscriptionOwner,
 } from './sql-ledger-store.ts';
+export { type SavedRule, SqlRuleStore } from './sql-rule-store.ts';
 export { openSqlStore, type SqlStore, sqlStoreOn } from './sql-store.ts';
 export {
   type CachedBusy,
@@ -37,5 +38,4 @@ export {
   type StoredGroup,
   type StoredPerson,
   type StoredRoom,
-  type StoredRule,
 } from './sql-workspace-store.ts';

@@ -2,6 +2,7 @@ import { type OpenStoreOptions, openStore, type StoreHandle, type StoreLocation 
 import type { SecretBox } from './secret-box.ts';
 import { SqlBookingStore } from './sql-booking-store.ts';
 import { SqlLedgerStore } from './sql-ledger-store.ts';
+import { SqlRuleStore } from './sql-rule-store.ts';
 import { SqlWorkspaceStore } from './sql-workspace-store.ts';
 
 /** Every part of the SQL store over one connection pool. */
@@ -9,6 +10,7 @@ export interface SqlStore {
   readonly handle: StoreHandle;
   readonly bookings: SqlBookingStore;
   readonly ledger: SqlLedgerStore;
+  readonly rules: SqlRuleStore;
   readonly workspace: SqlWorkspaceStore;
   close(): Promise<void>;
 }
@@ -19,6 +21,7 @@ export function sqlStoreOn(handle: StoreHandle, box: SecretBox): SqlStore {
     handle,
     bookings: new SqlBookingStore(handle),
     ledger: new SqlLedgerStore(handle),
+    rules: new SqlRuleStore(handle),
     workspace: new SqlWorkspaceStore(handle, box),
     close: () => handle.close(),
   };

@@ -28,15 +28,6 @@ export interface StoredGroup {
   readonly members: readonly string[];
 }
 
-/** A rule as stored: owner, the sentence as typed, and its parsed structure. */
-export interface StoredRule {
-  readonly id: string;
-  readonly owner: string;
-  readonly sentence: string;
-  readonly structure: unknown;
-  readonly createdAt: number;
-}
-
 /** Fetch state of a feed, for conditional requests and for falling back to the last good copy. */
 export interface FeedFetchState {
   readonly etag: string | null;
@@ -71,8 +62,8 @@ const json = (v: unknown) => JSON.stringify(v);
 const parse = (s: string | null): unknown => (s === null ? null : JSON.parse(s));
 
 /**
- * Workspace state in SQL: people, rooms, groups, rules, feeds (URLs encrypted), cached busy time,
- * requests with their options, series and week plans.
+ * Workspace state in SQL: people, rooms, groups, feeds (URLs encrypted), cached busy time,
+ * requests with their options, series and week plans. Rules are in SqlRuleStore.
  */
 export class SqlWorkspaceStore {
   readonly #handle: StoreHandle;
@@ -152,45 +143,6 @@ export class SqlWorkspaceStore {
   async groups(): Promise<StoredGroup[]> {
     const rows = await this.#db.selectFrom('group_').selectAll().orderBy('id').execute();
     return rows.map((r) => ({ id: r.id, members: parse(r.members) as string[] }));
-  }
-
-  /** Saves a new rule. */
-  async addRule(rule: StoredRule): Promise<void> {
-    await this.#db
-      .insertInto('rule')
-      .values({
-        id: rule.id,
-        owner: rule.owner,
-        sentence: rule.sentence,
-        structure: json(rule.structure),
-        created_ms: rule.createdAt,
-      })
-      .execute();
-  }
-
-  /** Rules, oldest first, optionally of one owner. */
-  async rules(owner?: string): Promise<StoredRule[]> {
-    let q = this.#db.selectFrom('rule').selectAll().orderBy('created_ms').orderBy('id');
-    if (owner !== undefined) q = q.where('owner', '=', owner);
-    const rows = await q.execute();
-    return rows.map((r) => ({
-      id: r.id,
-      owner: r.owner,
-      sentence: r.sentence,
-      structure: parse(r.structure),
-      createdAt: Number(r.created_ms),
-    }));
-  }
-
-  /** Deletes a rule when `actor` owns it. */
-  async removeRule(id: string, actor: string): Promise<OwnedOutcome> {
-    return writeTransaction(this.#handle, async (tx) => {
-      const row = await tx.selectFrom('rule').select('owner').where('id', '=', id).executeTakeFirst();
-      if (row === undefined) return { ok: false, reason: 'not_found' } as const;
-      if (row.owner !== actor) return { ok: false, reason: 'not_owner' } as const;
-      await tx.deleteFrom('rule').where('id', '=', id).execute();
-      return { ok: true } as const;
-    });
   }
 
   /** Adds a feed; its URL is encrypted before it is written. */

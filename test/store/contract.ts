@@ -2,11 +2,14 @@ import { type ChildProcess, spawn } from 'node:child_process';
 import { createInterface } from 'node:readline';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { RuleStore } from '../../src/app/ports.ts';
+import { parseRule } from '../../src/rules/index.ts';
 import {
   type BookingAttendee,
   hashToken,
   type ReserveInput,
   SecretBox,
+  SqlRuleStore,
   type SqlStore,
   sqlStoreOn,
 } from '../../src/store/index.ts';
@@ -347,23 +350,6 @@ export function storeContract(name: string, factory: StoreFactory): void {
         expect(await store.workspace.groups()).toEqual([{ id: 'leads', members: ['ines'] }]);
       });
 
-      it('keeps a rule with its owner, sentence and structure; only the owner removes it', async () => {
-        const structure = { kind: 'not-before', minutes: 600 };
-        await store.workspace.addRule({
-          id: 'r1',
-          owner: 'maren',
-          sentence: 'no meetings before 10am',
-          structure,
-          createdAt: T0,
-        });
-        expect(await store.workspace.rules('maren')).toEqual([
-          { id: 'r1', owner: 'maren', sentence: 'no meetings before 10am', structure, createdAt: T0 },
-        ]);
-        expect(await store.workspace.removeRule('r1', 'teo')).toEqual({ ok: false, reason: 'not_owner' });
-        expect(await store.workspace.removeRule('r1', 'maren')).toEqual({ ok: true });
-        expect(await store.workspace.removeRule('r1', 'maren')).toEqual({ ok: false, reason: 'not_found' });
-      });
-
       it('encrypts feed URLs at rest and keeps the last good copy when a fetch fails', async () => {
         const url = 'https://calendar.saltline.example/private/9f8e7d/basic.ics';
         await store.workspace.addFeed({ id: 'f1', owner: 'juno', url });
@@ -425,6 +411,41 @@ export function storeContract(name: string, factory: StoreFactory): void {
         expect(await store.workspace.series()).toEqual([{ id: 's1', owner: 'ines', body: { perWeek: 2 } }]);
         await store.workspace.saveWeekPlan({ id: 'w1', isoWeek: '2026-W50', body: { sessions: [] }, at: T0 });
         expect((await store.workspace.weekPlans('2026-W50')).map((p) => p.id)).toEqual(['w1']);
+      });
+    });
+
+    describe('rule store port', () => {
+      it("saves parsed rules per owner, reads them back checked, and removes only the owner's", async () => {
+        const rules: RuleStore = new SqlRuleStore(sut.handle);
+        const parsed = parseRule('no meetings before 10am', {
+          zone: 'Europe/Lisbon',
+          now: T0,
+          speaker: 'maren',
+        });
+        expect(parsed.ok).toBe(true);
+        if (!parsed.ok) return;
+        const saved = {
+          id: 'rule-m1',
+          ownerId: 'maren',
+          rule: parsed.rule,
+          text: parsed.text,
+          createdAt: T0,
+        };
+        await rules.add(saved);
+        await rules.add({ ...saved, id: 'rule-m0', createdAt: T0 - 1 });
+        await expect(rules.add(saved)).rejects.toThrow(/already used/);
+        expect((await rules.list('maren')).map((r) => r.id)).toEqual(['rule-m0', 'rule-m1']);
+        expect((await rules.list('maren'))[1]).toEqual(saved);
+        expect(await rules.remove('teo', 'rule-m1')).toBe(false);
+        expect(await rules.remove('maren', 'rule-m1')).toBe(true);
+        expect((await rules.list('maren')).map((r) => r.id)).toEqual(['rule-m0']);
+        await sut.handle.db
+          .updateTable('rule')
+          .set({ structure: '{"subject":{"kind":"nobody"}}' })
+          .where('id', '=', 'rule-m0')
+          .execute();
+        await expect(rules.list('maren')).rejects.toThrow(/does not match the rule structure/);
+        await sut.handle.db.deleteFrom('rule').where('id', '=', 'rule-m0').execute();
       });
     });
 
