@@ -171,7 +171,7 @@ const CASES: readonly Case[] = [
   {
     sentence: 'at least 24 hours notice',
     zone: 'Europe/Lisbon',
-    window: ['2026-12-07T09:00:00Z', '2026-12-08T12:00:00Z'],
+    window: ['2026-12-07T20:00:00Z', '2026-12-08T12:00:00Z'],
     now: '2026-12-07T09:00:00Z',
     minutes: 60,
   },
