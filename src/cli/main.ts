@@ -20,7 +20,9 @@ const COMMANDS: Readonly<Record<string, { summary: string; load: () => Promise<{
     // one line per verb; keep alphabetical
     book: { summary: 'book a time directly (admins and scripts)', load: () => import('./commands/book.ts') },
     cancel: { summary: 'cancel a booking or release a hold', load: () => import('./commands/cancel.ts') },
+    check: { summary: 'validate a workspace folder', load: () => import('./commands/check.ts') },
     console: { summary: 'chat in the terminal (pipes work)', load: () => import('./commands/console.ts') },
+    meet: { summary: 'propose and rank meeting times', load: () => import('./commands/meet.ts') },
     rule: {
       summary: 'read a rule in plain words and show its structure',
       load: () => import('./commands/rule.ts'),
