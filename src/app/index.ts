@@ -22,6 +22,19 @@ export {
   recordWeekOffHours,
 } from './fairness.ts';
 export { InMemoryRuleStore } from './in-memory-rule-store.ts';
+export {
+  describeWeekLock,
+  type LockedSession,
+  type LockedWeek,
+  lockWeek,
+  type MovedSession,
+  type PendingSession,
+  type WeekInvite,
+  type WeekLockDeps,
+  type WeekLockOptions,
+  type WeekLockOutcome,
+} from './week-lock.ts';
+export { type MeetAsk, type MeetUseCaseOptions, meet } from './meet.ts';
 export type { FairnessLedger, RuleStore, StoredRule } from './ports.ts';
 export {
   forgetRule,
@@ -34,3 +47,10 @@ export {
   ruleOwnerId,
   saveRule,
 } from './rules.ts';
+export {
+  fileBusy,
+  type StaleFeed,
+  type WorkspaceContextOptions,
+  workspaceContext,
+  workspaceRules,
+} from './workspace.ts';
