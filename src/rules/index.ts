@@ -10,6 +10,7 @@ export { describeRule, formatClock, formatDuration } from './describe-rule.ts';
 export type { RuleEffect, RuleStrength } from './effect.ts';
 export { PLAUSIBLE_HOURS, parseRule } from './parse-rule.ts';
 export { REST_CAUTION, type RestBreach, type RestOptions, restBreaches, restEffect } from './rest.ts';
+export { type RestSettings, type RestSubject, restSettingsSchema, withRestEffects } from './rest-settings.ts';
 export {
   type DayPart,
   type DayParts,
