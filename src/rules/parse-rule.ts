@@ -532,25 +532,35 @@ function scanZone(scan: Scan, found: Found): void {
     }
     setZone(zone);
   });
-  scan.take("\\b(?:in\\s+)?((?:[a-z']+\\s+)?[a-z']+)\\s+time\\b", (m) => {
-    const words = m[1]!;
-    const last = words.split(/\s+/).pop()!;
-    const zone = CITY_ZONES[words] ?? CITY_ZONES[last];
+  // two-word cities first ("new york time"); a phrase that is not one is left for the one-word pass
+  scan.take("\\b(?:in\\s+)?([a-z']+\\s+[a-z']+)\\s+time\\b", (m) => {
+    const zone = CITY_ZONES[m[1]!.replace(/\s+/g, ' ')];
+    if (zone === undefined) return false;
+    setZone(zone);
+    return true;
+  });
+  scan.take("\\b(?:in\\s+)?([a-z']+)\\s+time\\b", (m) => {
+    const word = m[1]!;
+    const zone = CITY_ZONES[word];
     if (zone !== undefined) {
       setZone(zone);
-      return;
+      return true;
     }
-    if (['my', 'local', 'lunch', 'any', 'free', 'meeting', 'the', 'same', 'own'].includes(last)) {
-      // "my time" and "local time" mean the speaker's own zone, which is the default
-      return last === 'my' || last === 'local' || last === 'own' ? undefined : false;
-    }
+    // "my time" and "local time" mean the speaker's own zone, which is the default
+    if (['my', 'local', 'own'].includes(word)) return true;
+    if (
+      ['lunch', 'any', 'free', 'meeting', 'the', 'same', 'of', 'that', 'this', 'in', 'on', 'at'].includes(
+        word,
+      )
+    )
+      return false;
     scan.issues.push({
       code: 'rule_unreadable',
       path: ['zone'],
-      message: `I could not read the zone '${last} time'; use an IANA name such as Europe/Lisbon`,
+      message: `I could not read the zone '${word} time'; use an IANA name such as Europe/Lisbon`,
       suggestions: [],
     });
-    return undefined;
+    return true;
   });
   scan.take('\\b(?:in\\s+)?(utc|gmt)\\b', () => setZone('UTC'));
 }
@@ -559,7 +569,7 @@ function scanDays(scan: Scan, found: Found): void {
   scan.take('\\b(?:in\\s+the\\s+|during\\s+the\\s+|on\\s+|the\\s+)?(morning|afternoon|evening)s?\\b', (m) => {
     found.parts.add(m[1] as DayPart);
   });
-  scan.take('\\b(?:on\\s+)?(?:week\\s?days|workdays|working\\s+days)\\b', () => {
+  scan.take('\\b(?:on\\s+)?(?:week\\s?days?|workdays?|working\\s+days?)\\b', () => {
     for (const d of [1, 2, 3, 4, 5]) found.weekdays.add(d);
   });
   scan.take('\\b(?:on\\s+)?(?:the\\s+)?week-?ends?\\b', () => {

@@ -44,46 +44,77 @@ export type RuleSubject = z.infer<typeof ruleSubjectSchema>;
 export const ruleModeSchema = z.enum(['avoid', 'only']);
 
 /** What a rule says. Each kind is one member of this union; see DEVELOPERS.md "how to add a rule kind". */
-export const ruleBodySchema = z.discriminatedUnion('kind', [
-  z
-    .object({
-      kind: z.literal('window'),
-      mode: ruleModeSchema,
-      weekdays: weekdays.optional(),
-      times: timeSpanSchema.optional(),
-      zone: z.string().min(1).optional(),
-    })
-    .strict(),
-  z
-    .object({
-      kind: z.literal('dates'),
-      mode: ruleModeSchema,
-      from: isoDate,
-      to: isoDate,
-      times: timeSpanSchema.optional(),
-      zone: z.string().min(1).optional(),
-    })
-    .strict(),
-  z
-    .object({
-      kind: z.literal('keep-free'),
-      weekdays: weekdays.optional(),
-      times: timeSpanSchema.optional(),
-      zone: z.string().min(1).optional(),
-    })
-    .strict(),
-  z
-    .object({
-      kind: z.literal('daily-limit'),
-      maxMeetings: z.number().int().min(1).optional(),
-      maxMinutes: z.number().int().min(1).optional(),
-      weekdays: weekdays.optional(),
-    })
-    .strict(),
-  z.object({ kind: z.literal('gap'), minutes: z.number().int().min(1) }).strict(),
-  z.object({ kind: z.literal('notice'), minutes: z.number().int().min(1) }).strict(),
-  z.object({ kind: z.literal('max-length'), minutes: z.number().int().min(1) }).strict(),
-]);
+export const ruleBodySchema = z
+  .discriminatedUnion('kind', [
+    z
+      .object({
+        kind: z.literal('window'),
+        mode: ruleModeSchema,
+        weekdays: weekdays.optional(),
+        times: timeSpanSchema.optional(),
+        zone: z.string().min(1).optional(),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal('dates'),
+        mode: ruleModeSchema,
+        from: isoDate,
+        to: isoDate,
+        times: timeSpanSchema.optional(),
+        zone: z.string().min(1).optional(),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal('keep-free'),
+        weekdays: weekdays.optional(),
+        times: timeSpanSchema.optional(),
+        zone: z.string().min(1).optional(),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal('daily-limit'),
+        maxMeetings: z.number().int().min(1).optional(),
+        maxMinutes: z.number().int().min(1).optional(),
+        weekdays: weekdays.optional(),
+      })
+      .strict(),
+    z.object({ kind: z.literal('gap'), minutes: z.number().int().min(1) }).strict(),
+    z.object({ kind: z.literal('notice'), minutes: z.number().int().min(1) }).strict(),
+    z.object({ kind: z.literal('max-length'), minutes: z.number().int().min(1) }).strict(),
+  ])
+  .superRefine((body, ctx) => {
+    // shapes a sentence cannot say are refused here, so every valid rule has a normalized sentence
+    if (
+      (body.kind === 'window' || body.kind === 'keep-free') &&
+      body.weekdays === undefined &&
+      body.times === undefined
+    )
+      ctx.addIssue({ code: 'custom', message: 'a time rule needs weekdays or times of day' });
+    if (
+      'times' in body &&
+      body.times !== undefined &&
+      'from' in body.times &&
+      body.times.from === 0 &&
+      body.times.to === 1440
+    )
+      ctx.addIssue({
+        code: 'custom',
+        message: 'a clock range over the whole day is the same as no clock range; leave it out',
+      });
+    if (body.kind === 'daily-limit' && body.maxMeetings === undefined && body.maxMinutes === undefined)
+      ctx.addIssue({ code: 'custom', message: 'a daily limit needs a number of meetings or of minutes' });
+    if (body.kind === 'dates' && body.to < body.from)
+      ctx.addIssue({ code: 'custom', message: 'a date range must not end before it starts' });
+    if (
+      'weekdays' in body &&
+      body.weekdays !== undefined &&
+      body.weekdays.some((d, i, a) => i > 0 && d <= a[i - 1]!)
+    )
+      ctx.addIssue({ code: 'custom', message: 'weekdays are listed once each, Monday (1) first' });
+  });
 /** What a rule says. */
 export type RuleBody = z.infer<typeof ruleBodySchema>;
 
