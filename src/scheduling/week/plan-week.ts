@@ -63,6 +63,8 @@ export interface WeekPlanStats {
   readonly elapsedMs: number;
   /** Cost right after construction, before local search. */
   readonly initialCost: number;
+  /** Time from the start until the first plan without hard violations (construction and repair), ms. */
+  readonly feasibleMs: number;
 }
 
 /** A week plan: placed sessions, the series left out, the preference cost. */
@@ -123,11 +125,11 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     return r === undefined || clock === undefined ? {} : { timeMs: Math.max(1, r * share), clock };
   };
 
-  // 1. series with no free start at all
+  // 1. series that cannot fit even alone
   let active: number[] = [];
   request.series.forEach((s, i) => {
-    if (space.candidates[i]!.length === 0)
-      unplaced.push({ series: s.id, code: 'no_free_start', blockers: explainNoStart(space, i) });
+    const alone = explainAlone(space, i);
+    if (alone !== null) unplaced.push({ series: s.id, code: 'no_free_start', blockers: alone });
     else active.push(i);
   });
 
@@ -148,14 +150,25 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     share: number,
   ): { model: WeekModel; values: Int32Array | null; proven: boolean } => {
     const model = buildPlaceModel(space, series);
-    const res = solve(model.model, {
+    // values in grid order first, with a small node budget: on roomy weeks it places everything
+    // without backtracking; tight weeks thrash there, so they go on to least-constraining values
+    let res = solve(model.model, {
       propagation: 'forward',
       variableOrder: 'mrv',
-      // least-constraining values first: ordering by preference cost thrashes on tight weeks
-      valueOrder: 'lcv',
-      budget: { nodes: o.searchNodes, ...timeBudget(share) },
+      valueOrder: 'natural',
+      budget: { nodes: 2 * model.model.variableCount + 100, ...timeBudget(1) },
       seed: o.seed,
     });
+    if (res.status === 'incomplete') {
+      searchNodes += res.stats.nodes;
+      res = solve(model.model, {
+        propagation: 'forward',
+        variableOrder: 'mrv',
+        valueOrder: 'lcv',
+        budget: { nodes: o.searchNodes, ...timeBudget(share) },
+        seed: o.seed,
+      });
+    }
     searchNodes += res.stats.nodes;
     const sol = res.solutions[0];
     return {
@@ -166,16 +179,17 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   };
 
   // 2. the whole week at once
-  let placed = trySolve(active, 0.3);
+  let placed = trySolve(active, 0.8);
   report('place', Number.NaN);
   if (placed.values === null && !placed.proven) {
     // the search ran out of budget: repair a greedy start by local search
-    const repaired = repair(space, scorer, active, o.seed, timeBudget(0.3), Math.min(o.moves, 1_000_000));
+    const repaired = repair(space, scorer, active, o.seed, timeBudget(0.8), Math.min(o.moves, 1_000_000));
     if (repaired !== null) placed = { ...placed, values: repaired };
     report('repair', Number.NaN);
   }
   if (placed.values === null) {
-    // 3. add series one at a time, hardest first, and leave out those that do not fit
+    // 3. add series hardest first, in halving chunks: a chunk that fits is kept whole, one that does
+    // not is split until the single series that does not fit are found and left out
     const order = [...active].sort(
       (a, b) =>
         space.candidates[a]!.length / request.series[a]!.sessions -
@@ -183,24 +197,34 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     );
     const kept: number[] = [];
     let last: Int32Array = new Int32Array(n).fill(-1);
-    for (const s of order) {
-      const attempt = trySolve([...kept, s], 0.05);
+    const add = (chunk: readonly number[]): void => {
+      if (chunk.length === 0) return;
+      const attempt = trySolve([...kept, ...chunk], 0.05);
       if (attempt.values !== null) {
-        kept.push(s);
+        kept.push(...chunk);
         last = attempt.values;
-        continue;
+        return;
       }
+      if (chunk.length > 1) {
+        const half = Math.ceil(chunk.length / 2);
+        add(chunk.slice(0, half));
+        add(chunk.slice(half));
+        return;
+      }
+      const s = chunk[0]!;
       unplaced.push({
         series: request.series[s]!.id,
         code: attempt.proven ? 'conflict' : 'budget',
-        blockers: attempt.proven ? explainConflict(space, attempt.model, s, timeBudget(0.05)) : [],
+        blockers: attempt.proven ? explainConflict(space, kept, s, timeBudget(0.05)) : [],
       });
       report('place', Number.NaN);
-    }
+    };
+    add(order);
     active = kept;
     placed = { ...placed, values: last };
   }
   values.set(placed.values!);
+  const feasibleMs = elapsed();
   active.sort((a, b) => a - b);
   const model = buildImproveModel(space, active);
   scorer.load(values);
@@ -289,6 +313,7 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
       rounds,
       elapsedMs: elapsed(),
       initialCost,
+      feasibleMs,
     },
   };
 }
@@ -341,72 +366,92 @@ function repair(
   return res.violations === 0 && countViolations(space, out) === 0 ? out : null;
 }
 
-/** Names what leaves a series with no free start: a minimal set of attendees' availability, its hours, rooms. */
-function explainNoStart(space: WeekSpace, series: number): WeekBlocker[] {
+/**
+ * Checks one series alone: its sessions need distinct, non-overlapping starts where every attendee
+ * is free, the series' hours allow and a fitting room is free. Null when it fits alone; otherwise a
+ * minimal set of what blocks it (attendees' availability, its hours, the rooms).
+ */
+function explainAlone(space: WeekSpace, series: number): WeekBlocker[] | null {
   const req = space.request;
   const s = req.series[series]!;
-  const RS = space.roomSlots;
-  const R = req.rooms.length;
+  // fast path: earliest-first packing of candidate starts finds `sessions` non-overlapping ones
+  let found = 0;
+  let nextFree = -1;
+  for (const v of space.candidates[series]!) {
+    const c = space.cellOf(v);
+    if (c < nextFree) continue;
+    found++;
+    nextFree = c + s.length;
+    if (found >= s.sessions) return null;
+  }
+  const C = req.cells.length;
   const b = new ModelBuilder();
-  const v = b.addVariable(s.id, req.cells.length * RS);
-  const cellOf = (x: number) => Math.floor(x / RS);
-  b.addUnary(
-    v,
-    (x) => space.fits(cellOf(x), s.length) && (s.room === undefined ? x % RS === R : x % RS !== R),
-    {
-      name: 'shape',
-    },
-  );
-  for (const a of new Set(s.attendees)) {
-    const free = req.attendees[a]!.free;
-    if (free === undefined) continue;
-    b.addUnary(
-      v,
-      (x) => {
-        const c = cellOf(x);
-        for (let k = 0; k < s.length; k++) if (free[c + k] !== true) return false;
-        return true;
-      },
-      { name: `attendee:${req.attendees[a]!.id}` },
-    );
+  const vars = Array.from({ length: s.sessions }, (_, k) => b.addVariable(`${s.id}#${k}`, C));
+  const rooms = s.room === undefined ? [] : space.roomsFor(series);
+  for (const v of vars) {
+    b.addUnary(v, (c) => space.fits(c, s.length), { name: 'shape' });
+    for (const a of new Set(s.attendees)) {
+      const free = req.attendees[a]!.free;
+      if (free === undefined) continue;
+      b.addUnary(
+        v,
+        (c) => {
+          for (let k = 0; k < s.length; k++) if (free[c + k] !== true) return false;
+          return true;
+        },
+        { name: `attendee:${req.attendees[a]!.id}` },
+      );
+    }
+    if (s.allowed !== undefined) {
+      const allowed = s.allowed;
+      b.addUnary(v, (c) => allowed[c] === true, { name: 'series-hours' });
+    }
+    if (s.room !== undefined)
+      b.addUnary(
+        v,
+        (c) =>
+          rooms.some((r) => {
+            const free = req.rooms[r]!.free;
+            if (free === undefined) return true;
+            for (let k = 0; k < s.length; k++) if (free[c + k] !== true) return false;
+            return true;
+          }),
+        { name: ROOM_GROUP },
+      );
   }
-  if (s.allowed !== undefined) {
-    const allowed = s.allowed;
-    b.addUnary(v, (x) => allowed[cellOf(x)] === true, { name: 'series-hours' });
-  }
-  if (s.room !== undefined) {
-    const rooms = new Set(space.roomsFor(series));
-    b.addUnary(
-      v,
-      (x) => {
-        const r = x % RS;
-        if (!rooms.has(r)) return false;
-        const free = req.rooms[r]!.free;
-        if (free === undefined) return true;
-        const c = cellOf(x);
-        for (let k = 0; k < s.length; k++) if (free[c + k] !== true) return false;
-        return true;
-      },
-      { name: ROOM_GROUP },
-    );
-  }
+  for (let x = 0; x < vars.length; x++)
+    for (let y = x + 1; y < vars.length; y++)
+      for (let k = -(s.length - 1); k <= s.length - 1; k++)
+        b.addNotEqualOffset(vars[x]!, vars[y]!, k, { name: 'shape' });
   const model = b.build();
   const blame = model.groups.filter((g) => g !== 'shape');
-  const conflict = minimalConflict(model, blame) ?? blame;
+  const res = solve(model, { budget: { nodes: 20_000 } });
+  if (res.status !== 'unsatisfiable') return null;
+  const conflict = minimalConflict(model, blame, { budget: { nodes: 20_000 } }) ?? blame;
   return conflict.map(groupToBlocker).filter((x): x is WeekBlocker => x !== null);
 }
 
-/** Names a minimal set of series (and rooms) that together leave no place for `series`. */
+/**
+ * Names a minimal set of series (and rooms) that, placed, leave no place for `series`: the conflict
+ * is searched in the model of `series` and the kept series that share an attendee or a room with it.
+ */
 function explainConflict(
   space: WeekSpace,
-  model: WeekModel,
+  kept: readonly number[],
   series: number,
   time: { timeMs?: number; clock?: () => number },
 ): WeekBlocker[] {
+  const req = space.request;
+  const mine = new Set(req.series[series]!.attendees);
+  const rooms = new Set(space.roomsFor(series));
+  const near = kept.filter(
+    (k) => req.series[k]!.attendees.some((a) => mine.has(a)) || space.roomsFor(k).some((r) => rooms.has(r)),
+  );
+  const model = buildPlaceModel(space, [...near, series]);
   const blame = model.model.groups.filter((g) => g !== CHANNEL_GROUP);
-  const conflict = minimalConflict(model.model, blame, { budget: { nodes: 200_000, ...time } });
+  const conflict = minimalConflict(model.model, blame, { budget: { nodes: 20_000, ...time } });
   if (conflict === null) return [];
-  const id = space.request.series[series]!.id;
+  const id = req.series[series]!.id;
   const out: WeekBlocker[] = [];
   const seen = new Set<string>();
   const push = (b: WeekBlocker) => {
@@ -420,7 +465,6 @@ function explainConflict(
     if (g.startsWith('with:')) {
       for (const other of g.slice(5).split('+')) if (other !== id) push({ kind: 'series', id: other });
       const [x, y] = g.slice(5).split('+');
-      const req = space.request;
       const sx = req.series.find((s) => s.id === x);
       const sy = req.series.find((s) => s.id === y);
       if (sx !== undefined && sy !== undefined)

@@ -10,8 +10,8 @@ export interface SyntheticWeekOptions {
   readonly rooms?: number;
   /** UTC offsets in hours of the offices. @default [-4, 0, 13] */
   readonly zones?: readonly number[];
-  /** Share of each person's working cells already busy. @default 0.15 */
-  readonly busyShare?: number;
+  /** Chance that a person has a one-hour busy block on a given day (from their other meetings). @default 0.4 */
+  readonly busyChance?: number;
   /** @default 1 */
   readonly seed?: number;
 }
@@ -33,11 +33,11 @@ export const SYNTHETIC_WEIGHTS: WeekWeights = {
 
 /**
  * A seeded, invented organization week for benchmarks: offices in several zones, working hours 09-17
- * local with core hours 10-16, some busy time, teams meeting mostly within an office, some across
+ * local with core hours 10-16, a busy hour on some days, teams meeting mostly within an office, some across
  * offices whose hours overlap. Five days of 48 half-hour cells (UTC).
  */
 export function syntheticWeek(options: SyntheticWeekOptions = {}): WeekRequest {
-  const o = { series: 300, people: 200, rooms: 25, zones: [-4, 0, 13], busyShare: 0.15, seed: 1, ...options };
+  const o = { series: 300, people: 200, rooms: 25, zones: [-4, 0, 13], busyChance: 0.4, seed: 1, ...options };
   let state = o.seed >>> 0;
   const rnd = (): number => {
     // mulberry32
@@ -67,8 +67,16 @@ export function syntheticWeek(options: SyntheticWeekOptions = {}): WeekRequest {
     const zone = o.zones[z]!;
     const free = cells.map((_, c) => {
       const h = localHour(c, zone);
-      return h >= 9 && h < 17 && rnd() >= o.busyShare;
+      return h >= 9 && h < 17;
     });
+    for (let d = 0; d < days; d++) {
+      if (rnd() >= o.busyChance) continue;
+      // one busy hour at a random half-hour of the local working day
+      const first = cells.findIndex((_, c) => Math.floor(c / perDay) === d && free[c] === true);
+      if (first < 0) continue;
+      const at = first + int(15);
+      for (const c of [at, at + 1]) if (free[c] !== undefined) free[c] = false;
+    }
     const offHours = cells.map((_, c) => {
       const h = localHour(c, zone);
       return h >= 10 && h < 16 ? 0 : 1;
@@ -85,8 +93,8 @@ export function syntheticWeek(options: SyntheticWeekOptions = {}): WeekRequest {
   for (let s = 0; s < o.series; s++) {
     const size = 2 + int(6);
     const z = int(o.zones.length);
-    // one series in five mixes in people of the next office (whose hours overlap for -4 and 0)
-    const cross = rnd() < 0.2 && o.zones.length > 1 ? (z === 0 ? 1 : 0) : z;
+    // one series in five mixes in people of the other office whose hours overlap (the first two)
+    const cross = rnd() < 0.2 && o.zones.length > 1 && z < 2 ? 1 - z : z;
     const pool = [...byZone[z]!, ...(cross === z ? [] : byZone[cross]!.slice(0, 20))];
     const chosen = new Set<number>();
     while (chosen.size < Math.min(size, pool.length)) chosen.add(pool[int(pool.length)]!);
@@ -102,7 +110,16 @@ export function syntheticWeek(options: SyntheticWeekOptions = {}): WeekRequest {
       length: 1 + int(2),
       preferredDays: preferred,
       ...(needsRoom
-        ? { room: { seats: Math.min(chosen.size, 12), features: rnd() < 0.3 ? [feature] : [] } }
+        ? {
+            room: {
+              seats: chosen.size,
+              // ask for a feature only when some room with it seats everyone
+              features:
+                rnd() < 0.3 && rooms.some((r) => r.features.includes(feature) && r.seats >= chosen.size)
+                  ? [feature]
+                  : [],
+            },
+          }
         : {}),
     });
   }

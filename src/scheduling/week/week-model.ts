@@ -24,6 +24,30 @@ export const ROOM_GROUP = 'rooms';
 /** Constraint group tying a session's start to its start x room (never blamed). */
 export const CHANNEL_GROUP = 'channel';
 
+/** Per series, the cells any of its candidate sessions covers, as a bitset: series whose sets miss each other never overlap. */
+function coveredCells(space: WeekSpace, series: readonly number[]): Map<number, Uint32Array> {
+  const C = space.request.cells.length;
+  const out = new Map<number, Uint32Array>();
+  for (const s of series) {
+    const bits = new Uint32Array((C + 31) >>> 5);
+    const len = space.request.series[s]!.length;
+    let last = -1;
+    for (const v of space.candidates[s]!) {
+      const c = space.cellOf(v);
+      if (c === last) continue;
+      last = c;
+      for (let k = 0; k < len; k++) bits[(c + k) >>> 5]! |= 1 << ((c + k) & 31);
+    }
+    out.set(s, bits);
+  }
+  return out;
+}
+
+function meet(a: Uint32Array, b: Uint32Array): boolean {
+  for (let i = 0; i < a.length; i++) if ((a[i]! & b[i]!) !== 0) return true;
+  return false;
+}
+
 /** For each attendee, the sessions (of the given series) they attend. */
 function sessionsByAttendee(space: WeekSpace, series: readonly number[]): number[][] {
   const req = space.request;
@@ -37,6 +61,7 @@ function sessionsByAttendee(space: WeekSpace, series: readonly number[]): number
 /** Pairs of sessions that may not overlap: same series or a shared attendee; each pair once. */
 function clashPairs(space: WeekSpace, series: readonly number[]): [number, number][] {
   const n = space.sessionCount;
+  const covered = coveredCells(space, series);
   const seen = new Set<number>();
   const out: [number, number][] = [];
   const add = (i: number, j: number) => {
@@ -44,6 +69,9 @@ function clashPairs(space: WeekSpace, series: readonly number[]): [number, numbe
     const key = x * n + y;
     if (seen.has(key)) return;
     seen.add(key);
+    const sx = space.sessionSeries[x]!;
+    const sy = space.sessionSeries[y]!;
+    if (sx !== sy && !meet(covered.get(sx)!, covered.get(sy)!)) return;
     out.push([x, y]);
   };
   for (const s of series)
@@ -59,6 +87,7 @@ function roomPairs(space: WeekSpace, series: readonly number[]): [number, number
   const req = space.request;
   const withRoom = series.filter((s) => req.series[s]!.room !== undefined);
   const sets = new Map(withRoom.map((s) => [s, new Set(space.roomsFor(s))]));
+  const covered = coveredCells(space, withRoom);
   const out: [number, number][] = [];
   for (let x = 0; x < withRoom.length; x++)
     for (let y = x + 1; y < withRoom.length; y++) {
@@ -66,7 +95,7 @@ function roomPairs(space: WeekSpace, series: readonly number[]): [number, number
       const a = withRoom[x]!;
       const b = withRoom[y]!;
       const sb = sets.get(b)!;
-      if (![...sets.get(a)!].some((r) => sb.has(r))) continue;
+      if (![...sets.get(a)!].some((r) => sb.has(r)) || !meet(covered.get(a)!, covered.get(b)!)) continue;
       for (let i = space.seriesFirst[a]!; i < space.seriesFirst[a + 1]!; i++)
         for (let j = space.seriesFirst[b]!; j < space.seriesFirst[b + 1]!; j++) out.push([i, j]);
     }

@@ -1,0 +1,126 @@
+// Week-plan benchmark: the seven public curriculum-based course timetabling instances (ITC-2007
+// track 3, bench/data/cbctt/README.md) and a seeded synthetic organization week, all solved by the
+// same planWeek code path the workspaces use.
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import { parseArgs } from 'node:util';
+import {
+  buildPlaceModel,
+  cbcttToWeekRequest,
+  formatCbcttSolution,
+  parseCbctt,
+  planWeek,
+  syntheticWeek,
+  type WeekRequest,
+  WeekSpace,
+} from '../src/scheduling/week/index.ts';
+import { solve } from '../src/solver/index.ts';
+
+const DATA = join(import.meta.dirname, 'data', 'cbctt');
+
+// Best-known costs as listed in bench/data/cbctt/README.md (from memory there, not verified).
+const BEST_KNOWN: Readonly<Record<string, number>> = {
+  comp01: 5,
+  comp02: 24,
+  comp03: 64,
+  comp04: 35,
+  comp05: 284,
+  comp06: 27,
+  comp07: 6,
+};
+
+const clock = (): number => performance.now();
+
+/** Time of the plain baseline (static order, natural values, no propagation) on the construction model. */
+function baselineMs(request: WeekRequest, capMs: number): { ms: number; solved: boolean } {
+  const space = new WeekSpace(request);
+  const model = buildPlaceModel(
+    space,
+    request.series.map((_, i) => i),
+  );
+  const t = clock();
+  const r = solve(model.model, {
+    propagation: 'none',
+    variableOrder: 'static',
+    valueOrder: 'natural',
+    budget: { timeMs: capMs, clock },
+  });
+  return { ms: clock() - t, solved: r.status === 'solved' };
+}
+
+function runInstance(file: string, seconds: number, seed: number, out: string | undefined): boolean {
+  const name = basename(file).replace(/\.ctt$/, '');
+  const inst = parseCbctt(readFileSync(file, 'utf8'));
+  const request = cbcttToWeekRequest(inst);
+  const lectures = request.series.reduce((n, s) => n + s.sessions, 0);
+  let firstFeasible = Number.NaN;
+  const plan = planWeek(request, {
+    timeMs: seconds * 1000,
+    clock,
+    seed,
+    onProgress: (p) => {
+      if (p.phase === 'improve' && Number.isNaN(firstFeasible)) firstFeasible = p.elapsedMs;
+    },
+  });
+  const missing = lectures - plan.sessions.length;
+  const hard = plan.violations + missing;
+  if (out !== undefined) writeFileSync(out, formatCbcttSolution(inst, plan.sessions));
+  const best = BEST_KNOWN[name];
+  const base = baselineMs(request, 2000);
+  const p = plan.score.parts;
+  process.stdout.write(
+    `${name.padEnd(8)} lectures ${String(lectures).padStart(3)}  hard ${hard} (missing ${missing})  ` +
+      `soft ${plan.score.total} [capacity ${p.seats}, min days ${p.spread}, compactness ${p.isolated}, stability ${p.roomStability}]  ` +
+      `best known ${best ?? '?'}  ratio ${best === undefined ? '?' : (plan.score.total / best).toFixed(2)}  ` +
+      `first feasible ${plan.stats.feasibleMs.toFixed(0)} ms (plain backtracking baseline: ${base.solved ? `${base.ms.toFixed(0)} ms, ${(base.ms / Math.max(1, plan.stats.feasibleMs)).toFixed(1)}x slower` : `no plan within ${base.ms.toFixed(0)} ms`})  ` +
+      `initial ${plan.score.total === plan.stats.initialCost ? plan.stats.initialCost : plan.stats.initialCost} -> ${plan.score.total} in ${plan.stats.moves} moves, ${plan.stats.rounds} rounds\n`,
+  );
+  return hard === 0;
+}
+
+function runSynthetic(seconds: number, seed: number): boolean {
+  const request = syntheticWeek({ seed });
+  const sessions = request.series.reduce((n, s) => n + s.sessions, 0);
+  const plan = planWeek(request, { timeMs: seconds * 1000, clock, seed });
+  const base = baselineMs(request, 2000);
+  process.stdout.write(
+    `synthetic (300 series, 200 people, 25 rooms, 3 zones, seed ${seed}) sessions ${sessions}  placed ${plan.sessions.length}  ` +
+      `unplaced series ${plan.unplaced.length}  hard ${plan.violations}  first feasible ${plan.stats.feasibleMs.toFixed(0)} ms  ` +
+      `(plain backtracking baseline: ${base.solved ? `${base.ms.toFixed(0)} ms` : `no plan within ${base.ms.toFixed(0)} ms`})  ` +
+      `cost ${plan.stats.initialCost} -> ${plan.score.total}\n`,
+  );
+  return plan.complete && plan.violations === 0;
+}
+
+/** `npm run bench -- week [--instance f] [--seconds s] [--out file] [--seed n] [--synthetic]`. */
+export async function run(args: readonly string[]): Promise<number> {
+  const { values } = parseArgs({
+    args: [...args],
+    options: {
+      instance: { type: 'string' },
+      seconds: { type: 'string', default: '10' },
+      out: { type: 'string' },
+      seed: { type: 'string', default: '1' },
+      synthetic: { type: 'boolean', default: false },
+    },
+  });
+  const seconds = Number(values.seconds);
+  const seed = Number(values.seed);
+  if (!(seconds > 0) || !Number.isInteger(seed)) {
+    process.stderr.write(
+      'usage: npm run bench -- week [--instance f.ctt] [--seconds s] [--out file] [--seed n] [--synthetic]\n',
+    );
+    return 2;
+  }
+  let ok = true;
+  if (values.synthetic) return runSynthetic(Math.min(seconds, 2), seed) ? 0 : 1;
+  if (values.instance !== undefined) return runInstance(values.instance, seconds, seed, values.out) ? 0 : 1;
+  for (const f of readdirSync(DATA)
+    .filter((x) => x.endsWith('.ctt'))
+    .sort()) {
+    const out = values.out === undefined ? undefined : join(values.out, f.replace(/\.ctt$/, '.sol'));
+    ok = runInstance(join(DATA, f), seconds, seed, out) && ok;
+  }
+  ok = runSynthetic(2, seed) && ok;
+  return ok ? 0 : 1;
+}
