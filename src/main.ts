@@ -2,15 +2,19 @@
  * The one composition root: reads the environment, loads the workspace, wires the real adapters and
  * starts the chat app (Slack when tokens are set) or the terminal console.
  */
+import { randomBytes, randomUUID } from 'node:crypto';
 import type { Readable } from 'node:stream';
 import { z } from 'zod';
-import { DefaultSlotwrightService, type ServicePerson } from './app/service.ts';
+import { BookingService } from './app/book.ts';
+import { InMemoryRuleStore } from './app/in-memory-rule-store.ts';
+import { DefaultSlotwrightService, feedBusyOf, type ServicePerson } from './app/service.ts';
+import { SolvePool } from './app/solve-pool.ts';
 import { runConsole } from './bot/console.ts';
 import { Conversation } from './bot/conversation.ts';
-import { InMemoryDeliveryLog } from './bot/in-memory-delivery-log.ts';
 import { type RunningSlackApp, type SlackConnection, startSlackApp } from './bot/slack-app.ts';
 import { loadWorkspace } from './config/index.ts';
 import { type Result, SlotwrightError } from './errors.ts';
+import { openStore, parseStoreLocation, SqlBookingStore, SqlLedgerStore } from './store/index.ts';
 
 /** The workspace folder used when SLOTWRIGHT_WORKSPACE is not set. */
 export const DEFAULT_WORKSPACE = 'fixtures/demo';
@@ -35,6 +39,11 @@ export const envSchema = z
       z.coerce.number().int('must be a whole number').min(0).max(65535).default(3000),
     ),
     SLOTWRIGHT_WORKSPACE: z.preprocess(blankToUndefined, z.string().default(DEFAULT_WORKSPACE)),
+    SLOTWRIGHT_DATABASE_URL: z.preprocess(blankToUndefined, z.string().optional()),
+    SLOTWRIGHT_TOKEN_KEY: z.preprocess(
+      blankToUndefined,
+      z.string().min(16, 'must be at least 16 characters').optional(),
+    ),
   })
   .superRefine((env, ctx) => {
     if (
@@ -75,15 +84,60 @@ export function parseEnv(env: Readonly<Record<string, string | undefined>>): Res
   };
 }
 
-/** Loads a workspace folder and builds the service over it; a bad folder throws config_invalid. */
-export function openService(workspaceDir: string, nowMs: number): DefaultSlotwrightService {
-  const ws = loadWorkspace(workspaceDir, { now: nowMs });
+/** Options of openService. */
+export interface OpenServiceOptions {
+  /** Current instant, epoch ms, for loading; and the clock the use cases read. */
+  readonly now: () => number;
+  /** SLOTWRIGHT_DATABASE_URL: a postgres:// URL, a SQLite path or :memory:. @default data/slotwright.sqlite */
+  readonly database?: string;
+  /** Solve on worker threads. @default true */
+  readonly pool?: boolean;
+  /** Key signing option tokens; replicas must share it. @default a random key per process */
+  readonly tokenKey?: string;
+}
+
+/** A service with the adapters it opened, closed together. */
+export interface OpenedService {
+  readonly service: DefaultSlotwrightService;
+  close(): Promise<void>;
+}
+
+/** Loads a workspace folder, opens the store and builds the service; a bad folder throws config_invalid. */
+export async function openService(workspaceDir: string, options: OpenServiceOptions): Promise<OpenedService> {
+  const ws = loadWorkspace(workspaceDir, { now: options.now() });
   if (!ws.ok) {
     throw new SlotwrightError('config_invalid', ws.issues.map((i) => i.message).join('\n'), {
       details: { issues: ws.issues },
     });
   }
-  return new DefaultSlotwrightService({ workspace: ws.value, deliveries: new InMemoryDeliveryLog() });
+  const handle = await openStore(parseStoreLocation(options.database, process.cwd()));
+  const bookingStore = new SqlBookingStore(handle);
+  const ledger = new SqlLedgerStore(handle);
+  const bookings = new BookingService({
+    store: bookingStore,
+    audit: ledger,
+    busyOf: feedBusyOf(ws.value),
+    now: options.now,
+    newId: randomUUID,
+    admins: ws.value.admins,
+  });
+  const pool = options.pool === false ? undefined : new SolvePool();
+  const service = new DefaultSlotwrightService({
+    workspace: ws.value,
+    deliveries: ledger,
+    bookings,
+    bookingStore,
+    rules: new InMemoryRuleStore(),
+    tokenKey: options.tokenKey ?? randomBytes(32).toString('hex'),
+    ...(pool === undefined ? {} : { pool }),
+  });
+  return {
+    service,
+    close: async () => {
+      await pool?.close();
+      await handle.close();
+    },
+  };
 }
 
 /** Options of runConsoleOver. */
@@ -97,33 +151,43 @@ export interface ConsoleRunOptions {
   readonly out: (text: string) => void;
   readonly err: (text: string) => void;
   readonly isTty: boolean;
+  /** Store location (SLOTWRIGHT_DATABASE_URL). @default data/slotwright.sqlite */
+  readonly database?: string;
 }
 
 /** Opens the terminal console over a workspace folder. */
 export async function runConsoleOver(options: ConsoleRunOptions): Promise<number> {
   const now = options.nowMs === undefined ? () => Date.now() : () => options.nowMs!;
-  const service = openService(options.workspaceDir, now());
-  let actor: ServicePerson;
-  if (options.as === undefined) actor = service.defaultPerson();
-  else {
-    const p = service.person(options.as);
-    if (p === undefined) {
-      options.err(
-        `slotwright console: --as '${options.as}' is not a person of the workspace; people: ${service.workspace.people.map((x) => x.id).join(', ')}`,
-      );
-      return 2;
-    }
-    actor = p;
-  }
-  return runConsole({
-    conversation: new Conversation(service),
-    actor,
-    input: options.input,
-    out: options.out,
-    isTty: options.isTty,
+  const opened = await openService(options.workspaceDir, {
     now,
-    log: options.err,
+    ...(options.database === undefined ? {} : { database: options.database }),
   });
+  try {
+    const service = opened.service;
+    let actor: ServicePerson;
+    if (options.as === undefined) actor = service.defaultPerson();
+    else {
+      const p = service.person(options.as);
+      if (p === undefined) {
+        options.err(
+          `slotwright console: --as '${options.as}' is not a person of the workspace; people: ${service.workspace.people.map((x) => x.id).join(', ')}`,
+        );
+        return 2;
+      }
+      actor = p;
+    }
+    return await runConsole({
+      conversation: new Conversation(service),
+      actor,
+      input: options.input,
+      out: options.out,
+      isTty: options.isTty,
+      now,
+      log: options.err,
+    });
+  } finally {
+    await opened.close();
+  }
 }
 
 /** Starts the Slack app from a parsed environment; resolves once it is listening. */
@@ -131,16 +195,28 @@ export async function startSlackFromEnv(
   env: AppEnv & { SLACK_BOT_TOKEN: string },
   log: (text: string) => void,
 ): Promise<RunningSlackApp> {
-  const service = openService(env.SLOTWRIGHT_WORKSPACE, Date.now());
+  const opened = await openService(env.SLOTWRIGHT_WORKSPACE, {
+    now: () => Date.now(),
+    ...(env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: env.SLOTWRIGHT_DATABASE_URL }),
+    // Replicas behind a load balancer must share the key; one process can make its own.
+    ...(env.SLOTWRIGHT_TOKEN_KEY === undefined ? {} : { tokenKey: env.SLOTWRIGHT_TOKEN_KEY }),
+  });
   const connection: SlackConnection =
     env.SLACK_APP_TOKEN !== undefined
       ? { mode: 'socket', appToken: env.SLACK_APP_TOKEN }
       : { mode: 'http', signingSecret: env.SLACK_SIGNING_SECRET!, port: env.PORT };
-  return startSlackApp({
+  const running = await startSlackApp({
     botToken: env.SLACK_BOT_TOKEN,
     connection,
-    conversation: new Conversation(service),
+    conversation: new Conversation(opened.service),
     log,
     ...(env.SLACK_API_URL === undefined ? {} : { slackApiUrl: env.SLACK_API_URL }),
   });
+  return {
+    port: running.port,
+    stop: async () => {
+      await running.stop();
+      await opened.close();
+    },
+  };
 }

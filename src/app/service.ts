@@ -3,9 +3,24 @@
  * each method returns `{ ok: false, issues }` for expected failures, including a use case that is
  * not wired into this build (`not_available`).
  */
+import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
 import type { Workspace } from '../config/index.ts';
 import { type Issue, type Result, SlotwrightError } from '../errors.ts';
-import type { ChatUserProfile, DeliveryLog } from './ports.ts';
+import { ruleEffect } from '../rules/index.ts';
+import {
+  findOptions,
+  type MeetOutcome,
+  type MeetRequest,
+  type SchedulingContext,
+  WIDEN_DAYS,
+} from '../scheduling/index.ts';
+import type { BookingRecord } from '../store/index.ts';
+import { addDays, type BusyInterval, type Interval, instantToZoned, zonedToInstant } from '../time/index.ts';
+import type { BookingService, BusyOf } from './book.ts';
+import type { BookingStore, ChatUserProfile, DeliveryLog, RuleStore } from './ports.ts';
+import { forgetRule, listRules, previewRule, type RuleDeps, saveRule } from './rules.ts';
+import type { SolvePool } from './solve-pool.ts';
+import { fileBusy, workspaceContext } from './workspace.ts';
 
 /** A workspace person as the bot sees them. */
 export interface ServicePerson {
@@ -97,6 +112,12 @@ export interface RulePreview {
   readonly description: string;
   readonly strength: 'hard' | 'preference';
   readonly token: string;
+  /** The structured form as labelled lines. */
+  readonly fields: readonly { readonly label: string; readonly value: string }[];
+  /** How it relates to rules already saved (repeats, overlaps, contradicts). */
+  readonly related: readonly string[];
+  /** The yes/no question to put to the person. */
+  readonly question: string;
 }
 
 /** A calendar feed and how fresh its busy time is. */
@@ -272,41 +293,53 @@ export interface ServiceOptions {
   readonly workspace: Workspace;
   /** Shared record of processed chat deliveries. */
   readonly deliveries: DeliveryLog;
+  /** Holds, bookings and cancellations. */
+  readonly bookings: BookingService;
+  /** The store behind `bookings`, read for upcoming bookings and for busy time already booked. */
+  readonly bookingStore: BookingStore;
+  /** Rules said in chat. */
+  readonly rules: RuleStore;
+  /** Key that signs option tokens, so a button cannot be forged into another booking. */
+  readonly tokenKey: string;
+  /** Solves on worker threads; in process when absent. @default undefined */
+  readonly pool?: SolvePool;
+  /** Makes request ids. @default crypto.randomUUID */
+  readonly newId?: () => string;
 }
 
-/** People of a loaded workspace as the bot sees them. */
-export function directoryOf(workspace: Workspace): PeopleDirectory {
-  const people = workspace.people.map(
-    (p): ServicePerson => ({
-      id: p.id,
-      name: p.name,
-      zone: p.zone,
-      admin: workspace.admins.includes(p.id),
-      ...(p.email === undefined ? {} : { email: p.email }),
-      ...(p.chat === undefined ? {} : { chat: p.chat }),
-    }),
-  );
-  return new PeopleDirectory(people, new Map(workspace.groups.map((g) => [g.id.toLowerCase(), g.members])));
+const DAY_MS = 86_400_000;
+const UPCOMING_DAYS = 60;
+
+/** The option a token stands for (what BookingService needs), signed by the service. */
+interface OptionPayload {
+  readonly requestId: string;
+  readonly optionId: string;
+  readonly organizer: string;
+  readonly title: string;
+  readonly start: number;
+  readonly end: number;
+  readonly room?: string;
+  readonly attendees: readonly { readonly id: string; readonly role: 'required' | 'optional' }[];
 }
 
 /** The service over one workspace, calling each use case that this build has. */
 export class DefaultSlotwrightService implements SlotwrightService {
   readonly workspaceName: string;
-  readonly #workspace: Workspace;
+  readonly #o: ServiceOptions;
   readonly #people: PeopleDirectory;
-  readonly #deliveries: DeliveryLog;
   readonly #last = new Map<string, MeetAnswer>();
+  readonly #newId: () => string;
 
   constructor(options: ServiceOptions) {
-    this.#workspace = options.workspace;
+    this.#o = options;
     this.workspaceName = options.workspace.name ?? 'workspace';
     this.#people = directoryOf(options.workspace);
-    this.#deliveries = options.deliveries;
+    this.#newId = options.newId ?? randomUUID;
   }
 
   /** The workspace this service answers for. */
   get workspace(): Workspace {
-    return this.#workspace;
+    return this.#o.workspace;
   }
 
   async identify(profile: ChatUserProfile): Promise<Result<ServicePerson>> {
@@ -318,61 +351,302 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   defaultPerson(): ServicePerson {
-    const admin = this.#workspace.admins.map((a) => this.#people.byId(a)).find((p) => p !== undefined);
+    const admin = this.#o.workspace.admins.map((a) => this.#people.byId(a)).find((p) => p !== undefined);
     const first = admin ?? this.#people.all[0];
     if (first === undefined) throw new SlotwrightError('config_invalid', 'the workspace has no people');
     return first;
   }
 
-  async meet(actor: ServicePerson, query: MeetQuery, _nowMs: number): Promise<Result<MeetAnswer>> {
+  /** Busy time of people and rooms: their file feeds plus what is already held or booked here. */
+  async #busy(
+    ids: readonly string[],
+    span: Interval,
+  ): Promise<Result<{ busy: Map<string, BusyInterval[]>; warnings: readonly string[] }>> {
+    const files = fileBusy(this.#o.workspace, ids, span);
+    if (!files.ok) return files;
+    const busy = new Map<string, BusyInterval[]>();
+    for (const id of ids) {
+      const list = [...(files.value.busy.get(id) ?? [])];
+      const kind = this.#o.workspace.rooms.some((r) => r.id === id) ? 'room' : 'person';
+      for (const b of await this.#o.bookingStore.listFor({ kind, id }, span, ['held', 'booked']))
+        list.push({ start: b.start, end: b.end, kind: 'busy' });
+      busy.set(id, list);
+    }
+    return { ok: true, value: { busy, warnings: files.value.warnings } };
+  }
+
+  async meet(actor: ServicePerson, query: MeetQuery, nowMs: number): Promise<Result<MeetAnswer>> {
     const people = this.#people.resolve(query.required, query.optional);
     if (!people.ok) return people;
-    void actor;
-    return notAvailable('Finding meeting times');
+    const ws = this.#o.workspace;
+    const window =
+      query.window === undefined
+        ? { start: nowMs, end: nowMs + ws.horizon * DAY_MS }
+        : {
+            start: zonedToInstant(query.window.from, 0, actor.zone),
+            end: zonedToInstant(addDays(query.window.to, 1), 0, actor.zone),
+          };
+    if (window.end <= nowMs)
+      return failure('window_past', 'that time range is already over; ask for a later one', ['window']);
+    const span = { start: Math.min(window.start, nowMs), end: window.end + WIDEN_DAYS * DAY_MS };
+    const ids = [...ws.people.map((p) => p.id), ...ws.rooms.map((r) => r.id)];
+    const busy = await this.#busy(ids, span);
+    if (!busy.ok) return busy;
+    const base = await workspaceContext(ws, { now: nowMs, span, busyOf: async () => busy.value.busy });
+    if (!base.ok) return base;
+    // Rules said in chat join the workspace's own rules.
+    const people2 = await Promise.all(
+      base.value.people.map(async (p) => {
+        const stored = await this.#o.rules.list(p.id);
+        if (stored.length === 0) return p;
+        const extra = stored.map((r) =>
+          ruleEffect(r.rule, { zone: p.zone, from: span.start, to: span.end, now: nowMs, id: r.id }),
+        );
+        return { ...p, rules: [...p.rules, ...extra] };
+      }),
+    );
+    const context: SchedulingContext = {
+      ...base.value,
+      people: people2,
+      warnings: [...(base.value.warnings ?? []), ...busy.value.warnings],
+    };
+    const request: MeetRequest = {
+      with: people.value.required.map((p) => p.id),
+      optional: people.value.optional.map((p) => p.id),
+      lengthMinutes: query.lengthMinutes,
+      window,
+      ...(query.roomFor === undefined ? {} : { seats: query.roomFor }),
+      needs: query.features,
+      options: 5,
+    };
+    const outcome =
+      this.#o.pool === undefined
+        ? findOptions(context, request)
+        : (await this.#o.pool.run({ kind: 'meet', context, request })).outcome;
+    if (!outcome.ok) return outcome;
+    const answer = this.#answer(actor, query, people.value, outcome.value, nowMs);
+    this.#last.set(actor.id, answer);
+    return { ok: true, value: answer };
+  }
+
+  #answer(
+    actor: ServicePerson,
+    query: MeetQuery,
+    people: ResolvedPeople,
+    outcome: MeetOutcome,
+    nowMs: number,
+  ): MeetAnswer {
+    const requestId = this.#newId();
+    const attendees = [...people.required, ...people.optional];
+    const title = `Meeting: ${attendees.map((p) => p.name.split(/\s+/)[0]).join(', ')}`;
+    const roomName = (id: string) => this.#o.workspace.rooms.find((r) => r.id === id)?.name ?? id;
+    const options = outcome.options.map((o, i): MeetOption => {
+      const payload: OptionPayload = {
+        requestId,
+        optionId: `o${i + 1}`,
+        organizer: actor.id,
+        title,
+        start: o.start,
+        end: o.end,
+        ...(o.room === null ? {} : { room: o.room }),
+        attendees: [
+          ...people.required.map((p) => ({ id: p.id, role: 'required' as const })),
+          ...people.optional.map((p) => ({ id: p.id, role: 'optional' as const })),
+        ],
+      };
+      return {
+        token: this.#sign(payload),
+        start: o.start,
+        end: o.end,
+        ...(o.room === null ? {} : { room: { id: o.room, name: roomName(o.room) } }),
+        score: o.score,
+        breakdown: o.breakdown.map((b) => ({ label: b.why, points: b.points })),
+      };
+    });
+    const blockers = outcome.blockers.map((b) => ({
+      subject: b.kind === 'person' ? (this.#people.byId(b.who)?.name ?? b.who) : b.who,
+      reason: b.detail,
+    }));
+    const relaxations = outcome.relaxations
+      .filter((r) => r.opens > 0)
+      .flatMap((r) => {
+        const q = relaxedQuery(query, people, r.change, actor.zone, nowMs);
+        return q === undefined
+          ? []
+          : [{ label: `${r.change} (${r.opens} start${r.opens === 1 ? '' : 's'})`, query: q }];
+      });
+    const unbuttoned = outcome.relaxations
+      .filter((r) => r.opens > 0 && relaxedQuery(query, people, r.change, actor.zone, nowMs) === undefined)
+      .map((r) => `would also help: ${r.change}`);
+    return {
+      query,
+      attendees,
+      options,
+      blockers,
+      relaxations,
+      warnings: [...outcome.warnings, ...unbuttoned],
+    };
+  }
+
+  #sign(payload: OptionPayload): string {
+    const body = Buffer.from(JSON.stringify(payload), 'utf8').toString('base64url');
+    const mac = createHmac('sha256', this.#o.tokenKey).update(body).digest('base64url').slice(0, 22);
+    return `${body}.${mac}`;
+  }
+
+  #open(token: string): OptionPayload | undefined {
+    const dot = token.lastIndexOf('.');
+    if (dot < 0) return undefined;
+    const body = token.slice(0, dot);
+    const mac = Buffer.from(token.slice(dot + 1));
+    const want = Buffer.from(
+      createHmac('sha256', this.#o.tokenKey).update(body).digest('base64url').slice(0, 22),
+    );
+    if (mac.length !== want.length || !timingSafeEqual(mac, want)) return undefined;
+    try {
+      return JSON.parse(Buffer.from(body, 'base64url').toString('utf8')) as OptionPayload;
+    } catch {
+      return undefined;
+    }
   }
 
   lastMeet(actorId: string): MeetAnswer | undefined {
     return this.#last.get(actorId);
   }
 
-  async hold(_actor: ServicePerson, _token: string, _nowMs: number): Promise<Result<BookingView>> {
-    return notAvailable('Holding a time');
+  #view(b: BookingRecord): BookingView {
+    const room =
+      b.room === null ? undefined : (this.#o.workspace.rooms.find((r) => r.id === b.room)?.name ?? b.room);
+    return {
+      id: b.id,
+      state: b.state,
+      start: b.start,
+      end: b.end,
+      attendees: b.attendees.map((a) => this.#people.byId(a.id)?.name ?? a.id),
+      ...(room === undefined ? {} : { room }),
+      ...(b.state === 'held' && b.holdExpiresAt !== null ? { expiresAt: b.holdExpiresAt } : {}),
+    };
   }
 
-  async book(_actor: ServicePerson, _token: string, _nowMs: number): Promise<Result<BookingView>> {
-    return notAvailable('Booking');
+  async #reserve(kind: 'hold' | 'book', actor: ServicePerson, token: string): Promise<Result<BookingView>> {
+    const payload = this.#open(token);
+    if (payload === undefined)
+      return failure('token_invalid', 'that option is not one I offered; ask again', ['option']);
+    const r = await this.#o.bookings[kind](actor.id, payload);
+    if (!r.ok) return r;
+    return { ok: true, value: this.#view(r.value.booking) };
   }
 
-  async cancel(_actor: ServicePerson, _bookingId: string, _nowMs: number): Promise<Result<BookingView>> {
-    return notAvailable('Cancelling a booking');
+  async hold(actor: ServicePerson, token: string, _nowMs: number): Promise<Result<BookingView>> {
+    return this.#reserve('hold', actor, token);
   }
 
-  async upcoming(_actor: ServicePerson, _nowMs: number): Promise<Result<readonly BookingView[]>> {
-    return notAvailable('Listing bookings');
+  async book(actor: ServicePerson, token: string, _nowMs: number): Promise<Result<BookingView>> {
+    if (token.startsWith('hold:')) {
+      const held = await this.#o.bookingStore.get(token.slice('hold:'.length));
+      if (held === undefined || held.requestId === null || held.optionId === null)
+        return failure('not_found', 'that hold is gone; ask again for fresh options', ['hold']);
+      const r = await this.#o.bookings.book(actor.id, {
+        requestId: held.requestId,
+        optionId: held.optionId,
+        organizer: held.organizer,
+        title: held.title,
+        start: held.start,
+        end: held.end,
+        ...(held.room === null ? {} : { room: held.room }),
+        attendees: held.attendees,
+      });
+      return r.ok ? { ok: true, value: this.#view(r.value.booking) } : r;
+    }
+    return this.#reserve('book', actor, token);
   }
 
-  async previewRule(_actor: ServicePerson, _text: string, _nowMs: number): Promise<Result<RulePreview>> {
-    return notAvailable('Reading rules');
+  async cancel(actor: ServicePerson, bookingId: string, _nowMs: number): Promise<Result<BookingView>> {
+    const r = await this.#o.bookings.cancel(actor.id, bookingId);
+    return r.ok ? { ok: true, value: this.#view(r.value.booking) } : r;
   }
 
-  async confirmRule(_actor: ServicePerson, _token: string, _nowMs: number): Promise<Result<RuleView>> {
-    return notAvailable('Saving rules');
+  async upcoming(actor: ServicePerson, nowMs: number): Promise<Result<readonly BookingView[]>> {
+    const list = await this.#o.bookingStore.listFor(
+      { kind: 'person', id: actor.id },
+      { start: nowMs, end: nowMs + UPCOMING_DAYS * DAY_MS },
+      ['held', 'booked'],
+    );
+    return { ok: true, value: [...list].sort((a, b) => a.start - b.start).map((b) => this.#view(b)) };
   }
 
-  async rules(_actor: ServicePerson): Promise<Result<readonly RuleView[]>> {
-    return notAvailable('Listing rules');
+  #ruleDeps(): RuleDeps {
+    const ws = this.#o.workspace;
+    return {
+      store: this.#o.rules,
+      people: ws.people.map((p) => ({ id: p.id, name: p.name })),
+      rooms: ws.rooms.map((r) => ({ id: r.id, name: r.name })),
+      groups: ws.groups.map((g) => ({ id: g.id, ...(g.name === undefined ? {} : { name: g.name }) })),
+      newId: () => `r${this.#newId().replace(/-/g, '').slice(0, 6)}`,
+    };
   }
 
-  async forgetRule(_actor: ServicePerson, _ruleId: string, _nowMs: number): Promise<Result<RuleView>> {
-    return notAvailable('Forgetting rules');
+  async previewRule(actor: ServicePerson, text: string, nowMs: number): Promise<Result<RulePreview>> {
+    const r = await previewRule(this.#ruleDeps(), actor, text, nowMs);
+    if (!r.ok) return { ok: false, issues: r.issues };
+    const v = r.value;
+    return {
+      ok: true,
+      value: {
+        description: v.text,
+        strength: v.rule.strength,
+        token: v.token,
+        fields: v.fields.map((f) => ({ label: f.label, value: f.value })),
+        related: v.related.map((c) => c.message),
+        question: v.question,
+      },
+    };
+  }
+
+  async confirmRule(actor: ServicePerson, token: string, nowMs: number): Promise<Result<RuleView>> {
+    const r = await saveRule(this.#ruleDeps(), actor, token, nowMs);
+    if (!r.ok) return { ok: false, issues: r.issues };
+    return { ok: true, value: { id: r.value.id, text: r.value.text, strength: r.value.rule.strength } };
+  }
+
+  async rules(actor: ServicePerson): Promise<Result<readonly RuleView[]>> {
+    const r = await listRules(this.#ruleDeps(), actor);
+    if (!r.ok) return { ok: false, issues: r.issues };
+    return { ok: true, value: r.value.map((x) => ({ id: x.id, text: x.text, strength: x.rule.strength })) };
+  }
+
+  async forgetRule(actor: ServicePerson, ruleId: string, _nowMs: number): Promise<Result<RuleView>> {
+    const r = await forgetRule(this.#ruleDeps(), actor, ruleId);
+    if (!r.ok) return { ok: false, issues: r.issues };
+    return { ok: true, value: { id: r.value.id, text: r.value.text, strength: r.value.rule.strength } };
   }
 
   async addFeed(_actor: ServicePerson, _url: string, _nowMs: number): Promise<Result<FeedView>> {
-    return notAvailable('Adding feeds');
+    return notAvailable('Adding feeds from chat');
   }
 
-  async feeds(_actor: ServicePerson, _nowMs: number): Promise<Result<readonly FeedView[]>> {
-    return notAvailable('Listing feeds');
+  async feeds(actor: ServicePerson, _nowMs: number): Promise<Result<readonly FeedView[]>> {
+    const p = this.#o.workspace.people.find((x) => x.id === actor.id);
+    if (p === undefined) return { ok: true, value: [] };
+    // Without a feed cache the files are read on every request, so they are as fresh as the files.
+    return {
+      ok: true,
+      value: p.feeds.map((f) =>
+        f.kind === 'file'
+          ? {
+              label: f.ref,
+              owner: actor.id,
+              freshness: 'fresh',
+              note: 'read from the workspace folder on each request',
+            }
+          : {
+              label: f.ref,
+              owner: actor.id,
+              freshness: 'never',
+              note: 'URL feeds are not fetched in this build',
+            },
+      ),
+    };
   }
 
   async series(_actor: ServicePerson, _text: string, _nowMs: number): Promise<Result<readonly SeriesView[]>> {
@@ -388,6 +662,67 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   claimDelivery(key: string, nowMs: number): Promise<boolean> {
-    return this.#deliveries.claim(key, nowMs);
+    return this.#o.deliveries.claim(key, nowMs);
   }
+}
+
+/** The request with one relaxation applied, or undefined when it cannot be said as a request. */
+export function relaxedQuery(
+  query: MeetQuery,
+  people: ResolvedPeople,
+  change: string,
+  zone: string,
+  nowMs: number,
+): MeetQuery | undefined {
+  const req = people.required.map((p) => p.id);
+  const opt = people.optional.map((p) => p.id);
+  const as = (ids: readonly string[]): PersonQuery[] => ids.map((id) => ({ kind: 'name', id }));
+  const base = { ...query, required: as(req), optional: as(opt) };
+  const moveOptional = (ids: readonly string[]): MeetQuery => ({
+    ...base,
+    required: as(req.filter((id) => !ids.includes(id))),
+    optional: as([...opt, ...ids.filter((id) => req.includes(id))]),
+  });
+  let m = /^make (\S+) optional$/.exec(change);
+  if (m !== null) return moveOptional([m[1]!]);
+  m = /^make the .* optional \(([^)]*)\)$/.exec(change);
+  if (m !== null) return moveOptional(m[1]!.split(',').map((s) => s.trim()));
+  m = /^shorten to (\d+) minutes$/.exec(change);
+  if (m !== null) return { ...base, lengthMinutes: Number(m[1]) };
+  m = /^widen the window by \d+ days \(to (\d{4}-\d{2}-\d{2})\)$/.exec(change);
+  if (m !== null) {
+    const today = instantToZoned(nowMs, zone).date;
+    return { ...base, window: { from: query.window?.from ?? today, to: addDays(m[1]!, -1) } };
+  }
+  if (/^accept a room with fewer than \d+ seats$/.test(change)) {
+    const { roomFor: _drop, ...rest } = base;
+    return rest;
+  }
+  m = /^drop the need for (.+)$/.exec(change);
+  if (m !== null) return { ...base, features: query.features.filter((f) => f !== m![1]) };
+  return undefined;
+}
+
+/** Feed busy time of a workspace for the booking re-check (the store checks its own bookings). */
+export function feedBusyOf(workspace: Workspace): BusyOf {
+  return async (ids, interval) => {
+    const r = fileBusy(workspace, ids, interval);
+    if (!r.ok) throw new SlotwrightError('feed_unreadable', r.issues.map((i) => i.message).join('; '));
+    return r.value.busy;
+  };
+}
+
+/** People of a loaded workspace as the bot sees them. */
+export function directoryOf(workspace: Workspace): PeopleDirectory {
+  const people = workspace.people.map(
+    (p): ServicePerson => ({
+      id: p.id,
+      name: p.name,
+      zone: p.zone,
+      admin: workspace.admins.includes(p.id),
+      ...(p.email === undefined ? {} : { email: p.email }),
+      ...(p.chat === undefined ? {} : { chat: p.chat }),
+    }),
+  );
+  return new PeopleDirectory(people, new Map(workspace.groups.map((g) => [g.id.toLowerCase(), g.members])));
 }

@@ -71,24 +71,24 @@ export class Conversation {
       case 'rule': {
         const r = await s.previewRule(actor, intent.text, nowMs);
         if (!r.ok) return issuesReply('I could not read that rule. Nothing was saved.', r.issues);
-        const kind = r.value.strength === 'hard' ? 'hard rule (must)' : 'preference (would like)';
-        return {
-          summary: `I read this as: ${r.value.description}`,
-          private: true,
-          blocks: [
-            {
-              kind: 'text',
-              spans: ['I read this as a ', { kind: 'strong', text: kind }, `: ${r.value.description}`],
-            },
-            {
-              kind: 'actions',
-              actions: [
-                { id: ACTION.confirmRule, label: 'Save this rule', value: r.value.token, style: 'primary' },
-              ],
-            },
-            { kind: 'note', spans: ['Nothing is saved until you confirm.'] },
-          ],
-        };
+        const v = r.value;
+        const kind = v.strength === 'hard' ? 'hard rule (must)' : 'preference (would like)';
+        const blocks: ReplyBlock[] = [
+          {
+            kind: 'text',
+            spans: ['I read this as a ', { kind: 'strong', text: kind }, `: ${v.description}`],
+          },
+        ];
+        if (v.fields.length > 0)
+          blocks.push({ kind: 'list', items: v.fields.map((f) => [`${f.label}: ${f.value}`]) });
+        if (v.related.length > 0) blocks.push({ kind: 'note', spans: [v.related.join(' · ')] });
+        blocks.push({ kind: 'text', spans: [v.question] });
+        blocks.push({
+          kind: 'actions',
+          actions: [{ id: ACTION.confirmRule, label: 'Save this rule', value: v.token, style: 'primary' }],
+        });
+        blocks.push({ kind: 'note', spans: ['Nothing is saved until you confirm.'] });
+        return { summary: `I read this as: ${v.description}`, private: true, blocks };
       }
       case 'rules': {
         const r = await s.rules(actor);

@@ -48,6 +48,7 @@ export const command: CliCommand = {
       out: io.out,
       err: io.err,
       isTty: process.stdin.isTTY === true && process.stdout.isTTY === true,
+      ...(io.env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: io.env.SLOTWRIGHT_DATABASE_URL }),
     });
   },
 };

@@ -32,6 +32,7 @@ export const command: CliCommand = {
         out: io.out,
         err: io.err,
         isTty: process.stdin.isTTY === true && process.stdout.isTTY === true,
+        ...(e.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: e.SLOTWRIGHT_DATABASE_URL }),
       });
     }
     const running = await startSlackFromEnv({ ...e, SLACK_BOT_TOKEN: e.SLACK_BOT_TOKEN }, io.err);
