@@ -134,3 +134,29 @@ export function slide(free: Uint32Array, ticks: number, len: number): Uint32Arra
   if (tail !== 0) out[out.length - 1]! &= (1 << tail) - 1;
   return out;
 }
+
+/** First index of the run of set bits that holds `t`, or -1 when bit `t` is clear. */
+export function runStartAt(bits: Uint32Array, t: number): number {
+  if (!hasBit(bits, t)) return -1;
+  let w = t >>> 5;
+  const off = t & 31;
+  let clear = ~bits[w]! & (off === 31 ? 0xffffffff : (1 << (off + 1)) - 1);
+  while (clear === 0) {
+    w--;
+    if (w < 0) return 0;
+    clear = ~bits[w]!;
+  }
+  return (w << 5) + (31 - Math.clz32(clear)) + 1;
+}
+
+/** One past the last index of the run of set bits that holds `t` (bits past the end count as clear). */
+export function runEndAt(bits: Uint32Array, t: number): number {
+  let w = t >>> 5;
+  let clear = ~bits[w]! & ~((1 << (t & 31)) - 1);
+  while (clear === 0) {
+    w++;
+    if (w >= bits.length) return bits.length << 5;
+    clear = ~bits[w]!;
+  }
+  return (w << 5) + (31 - Math.clz32(clear & -clear));
+}

@@ -39,12 +39,10 @@ export interface AttendeeView {
   readonly tentative: Uint32Array | null;
   /** Starts against each preference. */
   readonly prefs: readonly { readonly text: string; readonly clash: Uint32Array }[];
-  /** For each tick: first tick of the working stretch it is in (-1 outside working hours), and one past its last. */
-  readonly workRunStart: Int32Array;
-  readonly workRunEnd: Int32Array;
-  /** The same for stretches free of busy time inside working hours. */
-  readonly freeRunStart: Int32Array;
-  readonly freeRunEnd: Int32Array;
+  /** Ticks inside working hours. */
+  readonly workTicks: Uint32Array;
+  /** Ticks inside working hours and free of busy time and holidays. */
+  readonly freeTicks: Uint32Array;
 }
 
 /** One room's bitsets. */
@@ -214,26 +212,6 @@ function ruleStarts(
   return ok;
 }
 
-function runs(ticks: Uint32Array, n: number): { start: Int32Array; end: Int32Array } {
-  const start = new Int32Array(n).fill(-1);
-  const end = new Int32Array(n).fill(-1);
-  let runStart = -1;
-  for (let t = 0; t < n; t++) {
-    if (((ticks[t >>> 5]! >>> (t & 31)) & 1) === 1) {
-      if (runStart < 0) runStart = t;
-      start[t] = runStart;
-    } else runStart = -1;
-  }
-  let runEnd = -1;
-  for (let t = n - 1; t >= 0; t--) {
-    if (start[t]! >= 0) {
-      if (runEnd < 0) runEnd = t + 1;
-      end[t] = runEnd;
-    } else runEnd = -1;
-  }
-  return { start, end };
-}
-
 function possessive(id: string): string {
   return `${id}'s`;
 }
@@ -327,8 +305,6 @@ function attendeeView(
     const r = ticksTouched(grid, b);
     if (r.end > r.first) clearRange(freeTicks, r.first, r.end);
   }
-  const w = runs(workTicks, grid.ticks);
-  const f = runs(freeTicks, grid.ticks);
   return {
     person,
     required,
@@ -336,10 +312,8 @@ function attendeeView(
     ok: all,
     tentative,
     prefs,
-    workRunStart: w.start,
-    workRunEnd: w.end,
-    freeRunStart: f.start,
-    freeRunEnd: f.end,
+    workTicks,
+    freeTicks,
   };
 }
 

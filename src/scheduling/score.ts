@@ -1,5 +1,5 @@
 import { instantToZoned } from '../time/zoned.ts';
-import { hasBit } from './bits.ts';
+import { hasBit, runEndAt, runStartAt } from './bits.ts';
 import type { AttendeeView, Prepared } from './prepare.ts';
 import type { ScorePart } from './types.ts';
 
@@ -74,9 +74,9 @@ export function startParts(p: Prepared, s: number, words: boolean): ScorePart[] 
   let splits = 0;
   const splitWho: string[] = [];
   for (const a of who) {
-    const ws = a.workRunStart[s]!;
-    const we = a.workRunEnd[e - 1]!;
-    if (ws >= 0 && we >= 0 && a.workRunStart[e - 1] === ws) {
+    if (hasBit(a.workTicks, s) && runEndAt(a.workTicks, s) >= e) {
+      const ws = runStartAt(a.workTicks, s);
+      const we = runEndAt(a.workTicks, s);
       const early = Math.max(0, Math.min(e, ws + edgeTicks) - s);
       const late = Math.max(0, e - Math.max(s, we - edgeTicks));
       const minutes = (early + late) * tickMin;
@@ -85,9 +85,9 @@ export function startParts(p: Prepared, s: number, words: boolean): ScorePart[] 
         if (words) edgeWho.push(`${a.person.id} (${hhmm(startAt, a.person.zone)} ${a.person.zone})`);
       }
     }
-    const fs = a.freeRunStart[s]!;
-    const fe = a.freeRunEnd[e - 1]!;
-    if (fs >= 0 && fe >= 0 && a.freeRunStart[e - 1] === fs) {
+    if (hasBit(a.freeTicks, s) && runEndAt(a.freeTicks, s) >= e) {
+      const fs = runStartAt(a.freeTicks, s);
+      const fe = runEndAt(a.freeTicks, s);
       const before = (s - fs) * tickMin;
       const after = (fe - e) * tickMin;
       let short = 0;
