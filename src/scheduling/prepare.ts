@@ -121,7 +121,11 @@ export function resolveAttendees(context: SchedulingContext, request: MeetReques
 
 function dedupe(list: SchedulingPerson[]): SchedulingPerson[] {
   const seen = new Set<string>();
-  return list.filter((p) => (seen.has(p.id) ? false : (seen.add(p.id), true)));
+  return list.filter((p) => {
+    if (seen.has(p.id)) return false;
+    seen.add(p.id);
+    return true;
+  });
 }
 
 /** Starts whose meeting [s, s + length) touches none of `blocked` (each widened by `pad` ms). */
