@@ -86,16 +86,23 @@ export class SqlBookingStore {
     try {
       return await writeTransaction(this.#handle, (tx) => this.#reserveIn(tx, input));
     } catch (error) {
-      if (error instanceof ConflictSignal) return { ok: false, reason: 'conflict', with: error.ids };
       const state = sqlState(error);
+      if (!(error instanceof ConflictSignal) && state !== EXCLUSION_VIOLATION && state !== UNIQUE_VIOLATION)
+        throw error;
+      // On PostgreSQL a concurrent call with the same key may commit between our key lookup and our
+      // overlap check; what collided with us is then our own booking, so hand that back.
+      const existing = await this.#liveByKey(this.#handle.db, input.idemKey);
+      if (existing !== undefined) {
+        // A hold of ours committed first and we came to book: confirm it now that it is visible.
+        if (existing.state === 'held' && input.state === 'booked')
+          return writeTransaction(this.#handle, (tx) => this.#reserveIn(tx, input));
+        return { ok: true, booking: existing, created: false };
+      }
+      if (error instanceof ConflictSignal) return { ok: false, reason: 'conflict', with: error.ids };
       if (state === EXCLUSION_VIOLATION) {
         // Another replica committed first; its rows are visible now, so name who collided.
         const ids = await this.#overlapping(this.#handle.db, input, null);
         return { ok: false, reason: 'conflict', with: ids.length > 0 ? ids : unionIds(input) };
-      }
-      if (state === UNIQUE_VIOLATION) {
-        const existing = await this.#liveByKey(this.#handle.db, input.idemKey);
-        if (existing !== undefined) return { ok: true, booking: existing, created: false };
       }
       throw error;
     }

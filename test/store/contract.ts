@@ -119,6 +119,23 @@ export function storeContract(name: string, factory: StoreFactory): void {
         expect(two.booking).toEqual(one.booking);
       });
 
+      it('many concurrent calls with one idempotency key make one booking', async () => {
+        const i = input({ idemKey: 'req-9/opt-1', start: T0 + 60 * H, end: T0 + 61 * H, room: 'sounding' });
+        const all = await Promise.all(
+          Array.from({ length: 8 }, (_, k) => store.bookings.reserve({ ...i, newId: `same-${k}` })),
+        );
+        const ids = new Set(all.map((r) => (r.ok ? r.booking.id : 'refused')));
+        expect(all.filter((r) => !r.ok)).toEqual([]);
+        expect(ids.size).toBe(1);
+        expect([...ids][0]).toMatch(/^same-\d$/);
+        const rows = await sut.handle.db
+          .selectFrom('booking')
+          .select('id')
+          .where('idem_key', '=', 'req-9/opt-1')
+          .execute();
+        expect(rows).toHaveLength(1);
+      });
+
       it('keeps attendees with their roles in the child table', async () => {
         const r = await store.bookings.reserve(
           input({

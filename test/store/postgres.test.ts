@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { openStore, SqlBookingStore } from '../../src/store/index.ts';
 import { storeContract } from './contract.ts';
 import { postgresFactory } from './factories.ts';
 
@@ -62,6 +63,47 @@ describe.skipIf(url === undefined || url === '')('PostgreSQL exclusion constrain
       const n = await db.selectFrom('occupancy').select(db.fn.countAll().as('n')).executeTakeFirstOrThrow();
       expect(Number(n.n)).toBe(3);
     } finally {
+      await sut.cleanup();
+    }
+  });
+});
+
+describe.skipIf(url === undefined || url === '')('PostgreSQL race between check and insert', () => {
+  it('a rival committing after our check is caught by the constraint and reported as a conflict naming who', async () => {
+    const sut = await postgresFactory(url!)();
+    const rival = await openStore(sut.location, {
+      migrate: false,
+      ...(sut.searchPath ? { searchPath: sut.searchPath } : {}),
+    });
+    try {
+      const bookings = new SqlBookingStore(sut.handle);
+      const rivalBookings = new SqlBookingStore(rival);
+      const base = { title: 't', start: 1_000_000, end: 2_000_000, state: 'booked' as const, now: 0 };
+      const r = await bookings.reserve({
+        ...base,
+        idemKey: 'mine',
+        newId: 'mine',
+        organizer: 'bea',
+        room: 'tejo',
+        attendees: [{ id: 'bea', role: 'required' }],
+        // Runs after our own overlap check passed and before our insert: the rival wins the race.
+        recheck: async () => {
+          const won = await rivalBookings.reserve({
+            ...base,
+            idemKey: 'rival',
+            newId: 'rival',
+            organizer: 'lena',
+            room: 'tejo',
+            attendees: [{ id: 'lena', role: 'required' }],
+          });
+          expect(won.ok).toBe(true);
+          return [];
+        },
+      });
+      expect(r).toEqual({ ok: false, reason: 'conflict', with: ['tejo'] });
+      expect(await bookings.get('mine')).toBeUndefined();
+    } finally {
+      await rival.close();
       await sut.cleanup();
     }
   });
