@@ -34,6 +34,15 @@ export {
   type WeekLockOptions,
   type WeekLockOutcome,
 } from './week-lock.ts';
+export {
+  createWeekPlanPoster,
+  startWeekPlanPosting,
+  usualHoursOf,
+  type WeekPostCoordination,
+  type WeekPostDeps,
+  type WeekPostMessage,
+  weekPlanMessage,
+} from './week-post.ts';
 export { type MeetAsk, type MeetUseCaseOptions, meet } from './meet.ts';
 export type { FairnessLedger, RuleStore, StoredRule } from './ports.ts';
 export {
