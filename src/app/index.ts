@@ -22,6 +22,19 @@ export {
   recordWeekOffHours,
 } from './fairness.ts';
 export { InMemoryRuleStore } from './in-memory-rule-store.ts';
+export { type MeetAsk, type MeetUseCaseOptions, meet } from './meet.ts';
+export type { FairnessLedger, RuleStore, StoredRule } from './ports.ts';
+export {
+  forgetRule,
+  listRules,
+  previewRule,
+  type RuleActor,
+  type RuleDeps,
+  type RulePreviewData,
+  type RuleResult,
+  ruleOwnerId,
+  saveRule,
+} from './rules.ts';
 export {
   describeWeekLock,
   type LockedSession,
@@ -43,19 +56,6 @@ export {
   type WeekPostMessage,
   weekPlanMessage,
 } from './week-post.ts';
-export { type MeetAsk, type MeetUseCaseOptions, meet } from './meet.ts';
-export type { FairnessLedger, RuleStore, StoredRule } from './ports.ts';
-export {
-  forgetRule,
-  listRules,
-  previewRule,
-  type RuleActor,
-  type RuleDeps,
-  type RulePreviewData,
-  type RuleResult,
-  ruleOwnerId,
-  saveRule,
-} from './rules.ts';
 export {
   fileBusy,
   type StaleFeed,
