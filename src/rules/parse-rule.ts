@@ -507,7 +507,7 @@ function scanClocks(scan: Scan, found: Found): void {
   );
   scan.take(`\\b(?:at|around)\\s+${CLOCK}`, (m) => single(m, 'at'));
   scan.take(`\\b${STRICT_CLOCK}(?=\\s+(?:meetings?|calls?)\\b)`, (m) => single(m, 'at'));
-  scan.take('\\b(?:noon|midday)\\b', (m) => single(m, 'at'));
+  scan.take('\\b(noon|midday)\\b', (m) => single(m, 'at'));
 }
 
 function replaceOnce(text: string, part: string, by: string): string {
