@@ -30,6 +30,8 @@ export interface BusyOptions {
   readonly ownerEmail?: string;
   /** Stop expanding one series after this many instances (with a warning). @default 50000 */
   readonly maxInstancesPerSeries?: number;
+  /** Wall-clock time all series of one feed may take to expand (with a warning). @default 2000 */
+  readonly expansionTimeBudgetMs?: number;
 }
 
 /** Busy time read from one feed, with what could not be read. */
@@ -43,6 +45,28 @@ export interface BusyReport {
 }
 
 const DEFAULT_MAX_INSTANCES = 50_000;
+// ical.js can loop without end inside one next() call on rules whose limiting parts never match
+// (seen with FREQ=DAILY;BYDAY=FR;BYMONTHDAY=-2,-1). Every candidate it tries passes through
+// RecurIterator#check_contracting_rules, so counting those calls bounds the work. The counter is
+// only armed while this module expands a series; other users of ical.js see no change.
+// A wall-clock deadline per feed backs the counts up, as one check can be slow on such rules.
+const CHECKS_PER_SERIES = 100_000;
+const CHECKS_PER_FEED = 1_000_000;
+const DEFAULT_EXPANSION_MS = 2_000;
+
+class ExpansionBudgetExceeded extends Error {}
+
+let checksLeft = Number.POSITIVE_INFINITY;
+let deadline = Number.POSITIVE_INFINITY;
+{
+  const proto = ICAL.RecurIterator.prototype as unknown as { check_contracting_rules(): boolean };
+  const original = proto.check_contracting_rules;
+  proto.check_contracting_rules = function guarded(this: unknown): boolean {
+    if (--checksLeft < 0 || ((checksLeft & 511) === 0 && performance.now() > deadline))
+      throw new ExpansionBudgetExceeded('expansion budget exceeded');
+    return original.call(this);
+  };
+}
 const DAY_MS = 86_400_000;
 // Local times differ from UTC by at most about 14 hours; two days of slack keeps every candidate.
 const SLACK_MS = 2 * DAY_MS;
@@ -72,44 +96,60 @@ function pseudoUtc(l: LocalDateTime): number {
   return Date.UTC(l.year, l.month - 1, l.day, l.hour, l.minute, l.second);
 }
 
-// Offset of an embedded VTIMEZONE at an instant, through ical.js's own zone rules.
-function icalOffsetAt(tz: IcalTimezone, instant: number): number {
-  const d = new Date(instant);
-  const u = ICAL.Time.fromData(
-    {
-      year: d.getUTCFullYear(),
-      month: d.getUTCMonth() + 1,
-      day: d.getUTCDate(),
-      hour: d.getUTCHours(),
-      minute: d.getUTCMinutes(),
-      second: d.getUTCSeconds(),
-    },
-    ICAL.Timezone.utcTimezone,
-  );
-  const l = u.convertToZone(tz);
-  return pseudoUtc(localOf(l)) - Math.floor(instant / 1000) * 1000;
+// Offset (ms) that an embedded VTIMEZONE gives a local wall-clock time, through ical.js's own rules.
+function icalOffsetOfLocal(tz: IcalTimezone, pseudo: number): number {
+  const d = new Date(pseudo);
+  const t = ICAL.Time.fromData({
+    year: d.getUTCFullYear(),
+    month: d.getUTCMonth() + 1,
+    day: d.getUTCDate(),
+    hour: d.getUTCHours(),
+    minute: d.getUTCMinutes(),
+    second: d.getUTCSeconds(),
+  });
+  return tz.utcOffset(t) * 1000;
 }
 
-// ical.js reads a local time in a gap or overlap differently from RFC 5545 section 3.3.5, so the
-// choice between candidate offsets is made here: the first occurrence of a repeated time, and the
-// offset before the gap for a nonexistent one (the same rule Temporal's 'compatible' follows).
+// ical.js reads a local time in a gap or overlap differently from RFC 5545 section 3.3.5 (and its
+// UTC-to-local conversion is off near a change), so only its offsets of local times are used here.
+// Near a change the switch point S of those offsets is found by bisection; ical.js switches at the
+// earlier wall-clock reading of the change instant T, so T = S - min(before, after). Then a
+// repeated time takes its first occurrence and a nonexistent one the offset before the gap.
 function icalLocalToInstant(tz: IcalTimezone, local: LocalDateTime): number {
   const pseudo = pseudoUtc(local);
-  const before = icalOffsetAt(tz, pseudo - DAY_MS);
-  const after = icalOffsetAt(tz, pseudo + DAY_MS);
-  const candidates = [pseudo - before, pseudo - after].filter((c) => icalOffsetAt(tz, c) === pseudo - c);
-  if (candidates.length > 0) return Math.min(...candidates);
-  return pseudo - before;
+  const before = icalOffsetOfLocal(tz, pseudo - DAY_MS);
+  const after = icalOffsetOfLocal(tz, pseudo + DAY_MS);
+  if (before === after) return pseudo - icalOffsetOfLocal(tz, pseudo);
+  let lo = pseudo - DAY_MS;
+  let hi = pseudo + DAY_MS;
+  while (hi - lo > 1000) {
+    const mid = lo + Math.floor((hi - lo) / 2000) * 1000;
+    if (icalOffsetOfLocal(tz, mid) === before) lo = mid;
+    else hi = mid;
+  }
+  const change = hi - Math.min(before, after);
+  const early = pseudo - before;
+  const late = pseudo - after;
+  const valid = [early < change ? early : undefined, late >= change ? late : undefined].filter(
+    (c): c is number => c !== undefined,
+  );
+  return valid.length > 0 ? Math.min(...valid) : early;
 }
 
+// Used only to restate a UTC UNTIL in local time; within an hour of a change it may be an hour off.
 function icalInstantToLocal(tz: IcalTimezone, instant: number): LocalDateTime {
-  return instantToLocal(instant + icalOffsetAt(tz, instant), 'UTC');
+  const offset = icalOffsetOfLocal(tz, instant + icalOffsetOfLocal(tz, instant));
+  return instantToLocal(instant + offset, 'UTC');
 }
 
 class FeedReader {
   readonly raw: BusyInterval[] = [];
   readonly warnings: string[] = [];
   skipped = 0;
+  /** Rule checks left for the whole feed (see CHECKS_PER_FEED). */
+  checksLeft = CHECKS_PER_FEED;
+  /** performance.now() after which no series is expanded further. */
+  readonly deadline: number;
   readonly #owner: ZoneRef;
   readonly #ownerEmail: string | undefined;
   readonly #window: Interval;
@@ -123,6 +163,7 @@ class FeedReader {
     this.#ownerEmail = options.ownerEmail?.trim().toLowerCase();
     this.#window = options.window;
     this.#maxInstances = options.maxInstancesPerSeries ?? DEFAULT_MAX_INSTANCES;
+    this.deadline = performance.now() + (options.expansionTimeBudgetMs ?? DEFAULT_EXPANSION_MS);
     this.#vtimezones = vtimezones;
   }
 
@@ -327,6 +368,19 @@ class FeedReader {
         }
       }
     }
+    for (const p of comp.getAllProperties('rrule')) {
+      const recur = p.getFirstValue() as IcalRecur;
+      const parts = recur.parts as Record<string, unknown[] | undefined>;
+      const ordinalDay = (parts.BYDAY ?? []).some((d) => /^[+-]?\d/.test(String(d)));
+      if (
+        recur.freq === 'YEARLY' &&
+        (parts.BYWEEKNO !== undefined || (ordinalDay && parts.BYMONTH === undefined))
+      )
+        this.warnOnce(
+          `yearly:${where}`,
+          `${where}: a yearly rule by week number or by the n-th weekday of the year is expanded as every matching weekday (a limit of the calendar library); check this series`,
+        );
+    }
     const excluded = new Set<number>(overridden);
     for (const p of comp.getAllProperties('exdate')) {
       for (const v of p.getValues() as IcalTime[]) excluded.add(this.instantOf(v, tzidOf(start)));
@@ -334,10 +388,16 @@ class FeedReader {
     const lengthBound = length.days * 25 * 3_600_000 + length.ms;
     const lo = this.#window.start - SLACK_MS - lengthBound;
     const hi = this.#window.end + SLACK_MS;
-    const event = new ICAL.Event(comp);
-    const it = event.iterator();
+    const feedLeft = this.checksLeft;
+    const seriesBudget = Math.min(CHECKS_PER_SERIES, feedLeft);
+    checksLeft = seriesBudget;
+    deadline = this.deadline;
     let n = 0;
     try {
+      if (seriesBudget <= 0 || performance.now() > deadline)
+        throw new ExpansionBudgetExceeded('expansion budget exceeded');
+      const event = new ICAL.Event(comp);
+      const it = event.iterator();
       for (let occ = it.next(); occ; occ = it.next()) {
         if (++n > this.#maxInstances) {
           this.warnings.push(
@@ -360,7 +420,15 @@ class FeedReader {
         );
       }
     } catch (error) {
-      this.warnings.push(`${where}: recurrence could not be expanded further (${cleanMessage(error)})`);
+      if (error instanceof ExpansionBudgetExceeded)
+        this.warnings.push(
+          `${where}: the recurrence rule takes too long to expand; instances after the last one found are left out`,
+        );
+      else this.warnings.push(`${where}: recurrence could not be expanded further (${cleanMessage(error)})`);
+    } finally {
+      this.checksLeft = feedLeft - (seriesBudget - Math.max(0, checksLeft));
+      checksLeft = Number.POSITIVE_INFINITY;
+      deadline = Number.POSITIVE_INFINITY;
     }
   }
 
