@@ -1,12 +1,9 @@
 import { randomBytes } from 'node:crypto';
-import { readFileSync } from 'node:fs';
 import { Temporal } from 'temporal-polyfill';
-import { BookingService, type BusyOf, LOCAL_OPERATOR } from '../../app/index.ts';
-import { busyFromIcs } from '../../calendar/index.ts';
+import { BookingService, type BusyOf, fileBusy, LOCAL_OPERATOR } from '../../app/index.ts';
 import { loadWorkspace, type Workspace } from '../../config/index.ts';
 import { SlotwrightError } from '../../errors.ts';
 import { openStoreFromEnv, SqlBookingStore, SqlLedgerStore, type StoreHandle } from '../../store/index.ts';
-import type { BusyInterval } from '../../time/index.ts';
 import { listOption, parseVerbArgs, stringOption } from '../args.ts';
 import { parseDuration } from '../duration.ts';
 import type { CliIo } from '../io.ts';
@@ -72,42 +69,28 @@ export function resolveAttendees(ws: Workspace, ids: readonly string[]): string[
 }
 
 /**
- * Busy time from the feeds of people and rooms that the workspace names as files. URL feeds are
- * fetched by the app's feed service; until one is wired here they stop the booking, so nobody is
- * booked over time we could not see.
+ * Busy time from the workspace's file feeds (read by the app's fileBusy). A URL feed is not fetched
+ * by this command, so an attendee or room with one stops the booking rather than being booked over
+ * time we could not see.
  */
 function workspaceBusyOf(ws: Workspace): BusyOf {
   return async (ids, interval) => {
-    const out = new Map<string, BusyInterval[]>();
     for (const id of ids) {
       const owner = ws.people.find((p) => p.id === id) ?? ws.rooms.find((r) => r.id === id);
-      if (owner === undefined) continue;
-      const busy: BusyInterval[] = [];
-      for (const feed of owner.feeds) {
-        if (feed.kind !== 'file')
-          throw new SlotwrightError(
-            'feed_unreadable',
-            `feed ${feed.ref} of ${id} is a URL, which this command cannot read yet; book through the chat app`,
-          );
-        let text: string;
-        try {
-          text = readFileSync(feed.path, 'utf8');
-        } catch (error) {
-          throw new SlotwrightError('feed_unreadable', `cannot read feed ${feed.ref} of ${id}`, {
-            cause: error,
-          });
-        }
-        const email = 'email' in owner ? owner.email : undefined;
-        const report = busyFromIcs(text, {
-          window: interval,
-          zone: owner.zone,
-          ...(email === undefined ? {} : { ownerEmail: email }),
-        });
-        busy.push(...report.busy);
-      }
-      out.set(id, busy);
+      const url = owner?.feeds.find((f) => f.kind === 'url');
+      if (url !== undefined)
+        throw new SlotwrightError(
+          'feed_unreadable',
+          `${id}'s feed ${url.ref} is a URL, which this command does not fetch; book through the chat app`,
+        );
     }
-    return out;
+    const read = fileBusy(ws, ids, interval);
+    if (!read.ok)
+      throw new SlotwrightError(
+        read.issues[0]?.code === 'ics_invalid' ? 'ics_invalid' : 'feed_unreadable',
+        read.issues.map((i) => i.message).join('; '),
+      );
+    return read.value.busy;
   };
 }
 
