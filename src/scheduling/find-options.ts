@@ -162,8 +162,12 @@ function relaxations(
 ): Relaxation[] {
   const out: Relaxation[] = [];
   const required = p.attendees.filter((a) => a.required).map((a) => a.person.id);
+  const tried = new Set<string>();
   const tryOptional = (ids: readonly string[], change: string) => {
-    if (ids.length === 0 || ids.length >= required.length) return;
+    const key = [...ids].sort().join(',');
+    // the same people reached another way (a group, a zone) would be the same change twice
+    if (ids.length === 0 || ids.length >= required.length || tried.has(key)) return;
+    tried.add(key);
     out.push({ change, opens: popcount(feasibleStarts(p, new Set(ids))) });
   };
   const blamed = [...new Set(blockers.filter((b) => b.kind !== 'room').map((b) => b.who))];

@@ -29,6 +29,8 @@ export const PREFERENCE_POINTS = 10;
 export const ROOM_SPARE_POINTS = 0.25;
 /** Largest penalty for a room bigger than needed. */
 export const ROOM_SPARE_CAP = 5;
+/** Points for a room in a zone where none of the attendees is (likely another office). */
+export const ROOM_AWAY_POINTS = 20;
 
 const DAY_MS = 86_400_000;
 
@@ -143,10 +145,19 @@ export function startParts(p: Prepared, s: number, words: boolean): ScorePart[] 
 export function roomParts(p: Prepared, room: number, words: boolean): ScorePart[] {
   if (p.rooms === null) return [];
   const r = p.rooms[room]!.room;
+  const parts: ScorePart[] = [];
   const spare = r.capacity - p.seats;
-  if (spare <= 0) return [];
-  const points = round2(-Math.min(ROOM_SPARE_CAP, spare * ROOM_SPARE_POINTS));
-  return [{ why: words ? `${r.id} has ${spare} more seats than needed` : '', points }];
+  if (spare > 0) {
+    const points = round2(-Math.min(ROOM_SPARE_CAP, spare * ROOM_SPARE_POINTS));
+    parts.push({ why: words ? `${r.id} has ${spare} more seats than needed` : '', points });
+  }
+  // a room in a zone none of the attendees works in is most likely in another office
+  if (!p.attendees.some((a) => a.person.zone === r.zone))
+    parts.push({
+      why: words ? `${r.id} is in ${r.zone}, where none of the attendees is` : '',
+      points: -ROOM_AWAY_POINTS,
+    });
+  return parts;
 }
 
 /** Sum of the points of parts, as a non-negative cost for the solver. */
