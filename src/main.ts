@@ -99,6 +99,8 @@ export interface OpenServiceOptions {
 /** A service with the adapters it opened, closed together. */
 export interface OpenedService {
   readonly service: DefaultSlotwrightService;
+  /** The worker pool the service solves on, when there is one. */
+  readonly pool: SolvePool | undefined;
   close(): Promise<void>;
 }
 
@@ -133,6 +135,7 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
   });
   return {
     service,
+    pool,
     close: async () => {
       await pool?.close();
       await handle.close();

@@ -376,8 +376,17 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   async meet(actor: ServicePerson, query: MeetQuery, nowMs: number): Promise<Result<MeetAnswer>> {
-    const people = this.#people.resolve(query.required, query.optional);
-    if (!people.ok) return people;
+    const named = this.#people.resolve(query.required, query.optional);
+    if (!named.ok) return named;
+    // The asker attends their own meeting unless they named themselves optional.
+    const asker = named.value.optional.some((p) => p.id === actor.id) ? [] : [actor];
+    const people: { ok: true; value: ResolvedPeople } = {
+      ok: true,
+      value: {
+        required: [...asker, ...named.value.required.filter((p) => p.id !== actor.id)],
+        optional: named.value.optional,
+      },
+    };
     const ws = this.#o.workspace;
     const window =
       query.window === undefined
