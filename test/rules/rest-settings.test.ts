@@ -77,6 +77,55 @@ describe('rest between days in meet', () => {
   });
 });
 
+describe('rest between days in the week plan', () => {
+  // A slice of the invented demo cooperative: a Tuesday early sync that may start 07:00-09:00 Lisbon.
+  const YAML = `
+zone: Europe/Lisbon
+workingHours: {mon: ["07:00-19:00"], tue: ["07:00-19:00"], wed: ["07:00-19:00"], thu: ["07:00-19:00"], fri: ["07:00-19:00"]}
+people:
+  - {id: ines, name: Ines Carvalhal, zone: Europe/Lisbon}
+  - {id: rui, name: Rui Teixo, zone: Europe/Lisbon}
+series:
+  - {id: early-sync, name: Early sync, attendees: [ines, rui], minutes: 30, days: [tue], hours: ["07:00-09:30"]}
+`;
+  const NOW = Date.parse('2026-12-01T18:00Z');
+
+  async function planWith(rest: { hours: number; strength: 'hard' | 'preference' } | undefined) {
+    const { parseWorkspace } = await import('../../src/config/load-workspace.ts');
+    const { planWorkspaceWeek, weekContext } = await import('../../src/app/week.ts');
+    const ws = parseWorkspace(YAML, { file: '/demo/workspace.yaml', dir: '/demo' }, { now: NOW });
+    if (!ws.ok) throw new Error(JSON.stringify(ws.issues));
+    const base = weekContext(ws.value, NOW, WINDOW);
+    // Ines's late call on Monday (from her feed in real use).
+    const people = base.people.map((p) => (p.id === 'ines' ? { ...p, busy: [CALL] } : p));
+    const ctx = {
+      ...base,
+      people: rest === undefined ? people : withRestEffects(people, { workspace: rest }, WINDOW),
+    };
+    const r = planWorkspaceWeek(ws.value, ctx, {
+      now: NOW,
+      isoWeek: '2026-W50',
+      clock: () => 0,
+      timeMs: 1e9,
+      seed: 1,
+    });
+    if (!r.ok) throw new Error(JSON.stringify(r.issues));
+    return r.value;
+  }
+
+  it('moves the early sync to 09:00 after an 11-hour rest, and leaves it out when no start is rested enough', async () => {
+    const free = await planWith(undefined);
+    expect(free.complete).toBe(true);
+    // Without the rule the plan is free to use the early starts (it picks one before 09:00).
+    expect(free.sessions[0]!.start).toBeLessThan(Date.parse('2026-12-08T09:00Z'));
+    const rested = await planWith({ hours: 11, strength: 'hard' });
+    expect(rested.sessions.map((s) => new Date(s.start).toISOString())).toEqual(['2026-12-08T09:00:00.000Z']);
+    const tooLong = await planWith({ hours: 12, strength: 'hard' });
+    expect(tooLong.sessions).toEqual([]);
+    expect(tooLong.unplaced.map((u) => u.series)).toEqual(['early-sync']);
+  });
+});
+
 describe('restSettingsSchema', () => {
   it('defaults to a hard rule and refuses hours out of range with the fix', () => {
     expect(restSettingsSchema.parse({ hours: 11 })).toEqual({ hours: 11, strength: 'hard' });
