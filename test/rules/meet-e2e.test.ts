@@ -1,16 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import { parseRule } from '../../src/rules/parse-rule.ts';
-import { DEFAULT_DAY_PARTS, type Rule } from '../../src/rules/rule.ts';
+import type { Rule } from '../../src/rules/rule.ts';
 import { ruleEffect } from '../../src/rules/rule-effect.ts';
 import type { MeetOption, SchedulingContext } from '../../src/scheduling/index.ts';
 import { findOptions } from '../../src/scheduling/index.ts';
 import type { BusyInterval } from '../../src/time/interval.ts';
+import { breaksRule as breaks } from './support/rule-checker.ts';
 
 // End to end through the scheduling layer's findOptions (the core of meet): for each rule kind, a
 // one-person workspace without the rule offers an option that breaks it, and with the rule offers
 // none that does. "Breaks" is decided by an independent checker reading wall clocks with ICU data.
 
-const MIN = 60_000;
 const iso = (s: string): number => Date.parse(s);
 const ALL_DAY = [{ start: 7 * 60, end: 23 * 60 }];
 const HOURS = {
@@ -22,77 +22,6 @@ const HOURS = {
   sat: ALL_DAY,
   sun: ALL_DAY,
 };
-
-const fmt = new Map<string, Intl.DateTimeFormat>();
-function wall(t: number, zone: string): { date: string; weekday: number; minutes: number } {
-  let f = fmt.get(zone);
-  if (f === undefined) {
-    f = new Intl.DateTimeFormat('en-US', {
-      timeZone: zone,
-      year: 'numeric',
-      month: '2-digit',
-      day: '2-digit',
-      hour: '2-digit',
-      minute: '2-digit',
-      weekday: 'short',
-      hourCycle: 'h23',
-    });
-    fmt.set(zone, f);
-  }
-  const p = Object.fromEntries(f.formatToParts(new Date(t)).map((x) => [x.type, x.value]));
-  return {
-    date: `${p.year}-${p.month}-${p.day}`,
-    weekday: ['Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat', 'Sun'].indexOf(p.weekday!) + 1,
-    minutes: Number(p.hour) * 60 + Number(p.minute),
-  };
-}
-
-/** Whether a meeting [start, end) breaks a rule, from the rule's structure alone. */
-function breaks(
-  rule: Rule,
-  o: { start: number; end: number },
-  zone: string,
-  now: number,
-  busy: readonly BusyInterval[],
-): boolean {
-  const b = rule.body;
-  switch (b.kind) {
-    case 'notice':
-      return o.start < now + b.minutes * MIN;
-    case 'max-length':
-      return o.end - o.start > b.minutes * MIN;
-    case 'gap':
-      return busy.some((x) => x.start < o.end + b.minutes * MIN && x.end > o.start - b.minutes * MIN);
-    case 'daily-limit': {
-      const day = wall(o.start, zone).date;
-      const same = busy.filter((x) => wall(x.start, zone).date === day);
-      const minutes = same.reduce((n, x) => n + (x.end - x.start) / MIN, 0) + (o.end - o.start) / MIN;
-      return (
-        (b.maxMeetings !== undefined && same.length + 1 > b.maxMeetings) ||
-        (b.maxMinutes !== undefined && minutes > b.maxMinutes)
-      );
-    }
-    default: {
-      const z = b.zone ?? zone;
-      const span =
-        b.times === undefined
-          ? { from: 0, to: 1440 }
-          : 'part' in b.times
-            ? DEFAULT_DAY_PARTS[b.times.part]
-            : b.times;
-      for (let t = o.start; t < o.end; t += 5 * MIN) {
-        const w = wall(t, z);
-        const inDays =
-          b.kind === 'dates'
-            ? w.date >= b.from && w.date <= b.to
-            : b.weekdays === undefined || b.weekdays.includes(w.weekday);
-        const inside = inDays && w.minutes >= span.from && w.minutes < span.to;
-        if (b.kind === 'keep-free' || b.mode === 'avoid' ? inside : !inside) return true;
-      }
-      return false;
-    }
-  }
-}
 
 interface Case {
   readonly sentence: string;
