@@ -466,6 +466,7 @@ export function storeContract(name: string, factory: StoreFactory): void {
       });
     });
 
+    // Child processes start through tsx; on a loaded machine that alone can take many seconds.
     describe('across processes', () => {
       it('50 racing attempts on one room from 4 processes: one booking per overlapping set', async () => {
         // 10 clusters, 5 attempts each; inside a cluster starts differ by at most 20 minutes and each
@@ -516,7 +517,7 @@ export function storeContract(name: string, factory: StoreFactory): void {
         for (let i = 0; i < spans.length; i++)
           for (let j = i + 1; j < spans.length; j++)
             expect(spans[i]![0] < spans[j]![1] && spans[j]![0] < spans[i]![1]).toBe(false);
-      });
+      }, 120_000);
 
       it('a process killed inside a booking transaction leaves no partial rows and no lock', async () => {
         const start = T0 + 2000 * H;
@@ -549,7 +550,7 @@ export function storeContract(name: string, factory: StoreFactory): void {
           }),
         );
         expect(r.ok).toBe(true);
-      });
+      }, 120_000);
     });
   });
 }
