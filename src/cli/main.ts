@@ -19,6 +19,7 @@ const COMMANDS: Readonly<Record<string, { summary: string; load: () => Promise<{
   {
     // one line per verb; keep alphabetical
     book: { summary: 'book a time directly (admins and scripts)', load: () => import('./commands/book.ts') },
+    busy: { summary: 'show the busy time of one calendar feed', load: () => import('./commands/busy.ts') },
     cancel: { summary: 'cancel a booking or release a hold', load: () => import('./commands/cancel.ts') },
     check: { summary: 'validate a workspace folder', load: () => import('./commands/check.ts') },
     console: { summary: 'chat in the terminal (pipes work)', load: () => import('./commands/console.ts') },
