@@ -2,7 +2,10 @@
 import { SlotwrightError } from '../errors.ts';
 import type { Budget } from './types.ts';
 
-/** Counts nodes against a budget; checks the clock and the signal every 256 steps. */
+/**
+ * Counts nodes against a budget. The clock and the signal are read at every step when set: a node can
+ * be expensive (ordering thousands of values), so checking only every few hundred overshoots badly.
+ */
 export class BudgetMeter {
   readonly #nodeLimit: number;
   readonly #deadline: number;
@@ -10,6 +13,7 @@ export class BudgetMeter {
   readonly #signal: AbortSignal | null;
   readonly #start: number;
   #steps = 0;
+  readonly #watch: boolean;
   /** True once a limit was reached; every later step fails. */
   stopped = false;
 
@@ -30,6 +34,7 @@ export class BudgetMeter {
     this.#signal = b.signal ?? null;
     this.#start = this.#clock === null ? 0 : this.#clock();
     this.#deadline = b.timeMs === undefined ? Number.POSITIVE_INFINITY : this.#start + b.timeMs;
+    this.#watch = this.#signal !== null || this.#deadline !== Number.POSITIVE_INFINITY;
     if (this.#signal?.aborted === true) this.stopped = true;
   }
 
@@ -41,7 +46,7 @@ export class BudgetMeter {
       return false;
     }
     this.#steps++;
-    if ((this.#steps & 255) === 0) return this.check();
+    if (this.#watch) return this.check();
     return true;
   }
 

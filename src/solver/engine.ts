@@ -58,17 +58,18 @@ export class Engine {
   readonly #nw: Int32Array;
   readonly #cap: Int32Array;
   readonly #arcStart: Int32Array;
+  readonly #arcSplit: Int32Array;
   readonly #arcTo: Int32Array;
   readonly #arcKind: Uint8Array;
   readonly #arcData: Int32Array;
   readonly #rows: readonly SupportRows[];
-  readonly #nary: LocalNary[];
+  readonly #nary: readonly LocalNary[];
   readonly #naryStart: Int32Array;
   readonly #naryList: Int32Array;
   readonly #degree: Int32Array;
   readonly #tie: Uint32Array;
-  readonly #ucost: (Float64Array | null)[];
-  readonly #corder: (Int32Array | null)[];
+  readonly #ucost: readonly (Float64Array | null)[];
+  readonly #corder: readonly (Int32Array | null)[];
   readonly #costVars: Int32Array;
   readonly #bcStart: Int32Array;
   readonly #bcOther: Int32Array;
@@ -111,46 +112,35 @@ export class Engine {
   /** True when `nodeCap` stopped this search. */
   cutOff = false;
 
-  /** Prepares search over `gvars` (ascending global ids) with root domains and active constraints. */
+  /** Prepares search over one component from its shared structure and root domains. */
   constructor(
     model: CompiledModel,
-    gvars: Int32Array,
-    local: Int32Array,
+    st: Structure,
     rootDom: readonly Uint32Array[],
-    active: Uint8Array | null,
     settings: EngineSettings,
     meter: BudgetMeter,
     stats: SolveStats,
   ) {
     this.#model = model;
+    const gvars = st.gvars;
     this.#gvars = gvars;
     const n = gvars.length;
     this.#n = n;
     this.#set = settings;
     this.#meter = meter;
     this.#stats = stats;
-    const off = new Int32Array(n + 1);
-    const nw = new Int32Array(n);
-    const cap = new Int32Array(n);
-    let maxCap = 1;
-    for (let i = 0; i < n; i++) {
-      const g = gvars[i]!;
-      cap[i] = model.sizes[g]!;
-      nw[i] = rootDom[g]!.length;
-      off[i + 1] = off[i]! + nw[i]!;
-      if (cap[i]! > maxCap) maxCap = cap[i]!;
-    }
+    const off = st.off;
     this.#off = off;
-    this.#nw = nw;
-    this.#cap = cap;
+    this.#nw = st.nw;
+    this.#cap = st.cap;
     const dom = new Uint32Array(off[n]!);
     const size = new Int32Array(n);
     for (let i = 0; i < n; i++) {
       const src = rootDom[gvars[i]!]!;
       dom.set(src, off[i]!);
-      let s = 0;
-      for (let w = 0; w < src.length; w++) s += popcount32(src[w]!);
-      size[i] = s;
+      let c = 0;
+      for (let w = 0; w < src.length; w++) c += popcount32(src[w]!);
+      size[i] = c;
     }
     this.#dom = dom;
     this.#size = size;
@@ -162,115 +152,29 @@ export class Engine {
     this.#trailVar = new Int32Array(tcap);
     this.#queue = new Int32Array(n);
     this.#inQ = new Uint8Array(n);
-    let maxWords = 1;
-    for (let i = 0; i < n; i++) if (nw[i]! > maxWords) maxWords = nw[i]!;
-    this.#scratch = new Uint32Array(maxWords);
-
-    // Local arcs of active constraints.
-    const arcStart = new Int32Array(n + 1);
-    for (let i = 0; i < n; i++) {
-      const g = gvars[i]!;
-      let c = 0;
-      for (let a = model.arcStart[g]!; a < model.arcStart[g + 1]!; a++) {
-        if (active === null || active[model.arcCons[a]!] === 1) c++;
-      }
-      arcStart[i + 1] = arcStart[i]! + c;
-    }
-    const m = arcStart[n]!;
-    const arcTo = new Int32Array(m);
-    const arcKind = new Uint8Array(m);
-    const arcData = new Int32Array(m);
-    for (let i = 0, k = 0; i < n; i++) {
-      const g = gvars[i]!;
-      for (let a = model.arcStart[g]!; a < model.arcStart[g + 1]!; a++) {
-        if (active !== null && active[model.arcCons[a]!] !== 1) continue;
-        arcTo[k] = local[model.arcTo[a]!]!;
-        arcKind[k] = model.arcKind[a]!;
-        arcData[k] = model.arcData[a]!;
-        k++;
-      }
-    }
-    this.#arcStart = arcStart;
-    this.#arcTo = arcTo;
-    this.#arcKind = arcKind;
-    this.#arcData = arcData;
+    this.#scratch = new Uint32Array(st.maxWords);
+    this.#arcStart = st.arcStart;
+    this.#arcSplit = st.arcSplit;
+    this.#arcTo = st.arcTo;
+    this.#arcKind = st.arcKind;
+    this.#arcData = st.arcData;
     this.#rows = model.rows;
-
-    // Local n-ary constraints.
-    const seen = new Map<number, number>();
-    const nary: LocalNary[] = [];
-    const lists: number[][] = [];
-    for (let i = 0; i < n; i++) {
-      const g = gvars[i]!;
-      const mine: number[] = [];
-      for (let k = model.naryStart[g]!; k < model.naryStart[g + 1]!; k++) {
-        const ci = model.naryList[k]!;
-        const c = model.nary[ci]!;
-        if (active !== null && active[c.id] !== 1) continue;
-        let li = seen.get(ci);
-        if (li === undefined) {
-          li = nary.length;
-          seen.set(ci, li);
-          const vars = Int32Array.from(c.vars, (v) => local[v]!);
-          const supOff = new Int32Array(vars.length + 1);
-          for (let j = 0; j < vars.length; j++) supOff[j + 1] = supOff[j]! + nw[vars[j]!]!;
-          nary.push({
-            kind: c.kind,
-            vars,
-            tuples: c.tuples,
-            fn: c.fn,
-            scratch: new Array<number>(vars.length).fill(0),
-            supOff,
-            sup: new Uint32Array(c.kind === NARY_TABLE ? supOff[vars.length]! : 0),
-          });
-        }
-        mine.push(li);
-      }
-      lists.push(mine);
-    }
-    this.#nary = nary;
-    const naryStart = new Int32Array(n + 1);
-    for (let i = 0; i < n; i++) naryStart[i + 1] = naryStart[i]! + lists[i]!.length;
-    const naryList = new Int32Array(naryStart[n]!);
-    for (let i = 0; i < n; i++) naryList.set(lists[i]!, naryStart[i]!);
-    this.#naryStart = naryStart;
-    this.#naryList = naryList;
-
-    this.#degree = Int32Array.from(gvars, (g) => model.degree[g]!);
+    this.#nary = st.nary;
+    this.#naryStart = st.naryStart;
+    this.#naryList = st.naryList;
+    this.#degree = st.degree;
     // MRV ties: by index for seed 0 (the order the model was written in), otherwise by a fixed
     // seeded priority, which is what restarts use to explore other orders deterministically.
     const rng = new Prng(settings.seed);
     this.#tie = Uint32Array.from(gvars, (_, i) => (settings.seed === 0 ? i : rng.nextU32()));
-    this.#ucost = Array.from(gvars, (g) => model.unaryCost[g] ?? null);
-    this.#corder = Array.from(gvars, (g) => model.costOrder[g] ?? null);
-    const costVars: number[] = [];
-    for (let i = 0; i < n; i++) if (this.#ucost[i] !== null) costVars.push(i);
-    this.#costVars = Int32Array.from(costVars);
-    const bcStart = new Int32Array(n + 1);
-    for (let i = 0; i < n; i++) {
-      const g = gvars[i]!;
-      bcStart[i + 1] = bcStart[i]! + (model.bcostStart[g + 1]! - model.bcostStart[g]!);
-    }
-    const bcOther = new Int32Array(bcStart[n]!);
-    const bcTerm = new Int32Array(bcStart[n]!);
-    const bcIsX = new Uint8Array(bcStart[n]!);
-    for (let i = 0, k = 0; i < n; i++) {
-      const g = gvars[i]!;
-      for (let j = model.bcostStart[g]!; j < model.bcostStart[g + 1]!; j++) {
-        const t = model.bcostList[j]!;
-        const term = model.binaryCosts[t]!;
-        const isX = term.x === g;
-        bcOther[k] = local[isX ? term.y : term.x]!;
-        bcTerm[k] = t;
-        bcIsX[k] = isX ? 1 : 0;
-        k++;
-      }
-    }
-    this.#bcStart = bcStart;
-    this.#bcOther = bcOther;
-    this.#bcTerm = bcTerm;
-    this.#bcIsX = bcIsX;
-
+    this.#ucost = st.ucost;
+    this.#corder = st.corder;
+    this.#costVars = st.costVars;
+    this.#bcStart = st.bcStart;
+    this.#bcOther = st.bcOther;
+    this.#bcTerm = st.bcTerm;
+    this.#bcIsX = st.bcIsX;
+    const maxCap = st.maxCap;
     this.#varAt = new Int32Array(n);
     this.#cursor = new Int32Array(n);
     this.#count = new Int32Array(n);
@@ -746,7 +650,9 @@ export class Engine {
       this.#qLen--;
       this.#inQ[y] = 0;
       const single = size[y] === 1 ? this.#single(y) : -1;
-      for (let i = this.#arcStart[y]!; i < this.#arcStart[y + 1]!; i++) {
+      // Not-equal arcs come first and prune only from a single value, so skip them otherwise.
+      const from = single >= 0 ? this.#arcStart[y]! : this.#arcSplit[y]!;
+      for (let i = from; i < this.#arcStart[y + 1]!; i++) {
         const z = this.#arcTo[i]!;
         if (val[z]! >= 0) continue;
         stats.propagations++;
@@ -948,4 +854,174 @@ function sortByKey(keys: Float64Array, vals: Int32Array, lo: number, hi: number)
     keys[j + 1] = k;
     vals[j + 1] = v;
   }
+}
+
+/** The static part of one component's search: arcs, n-ary scopes and costs in local numbering. */
+export interface Structure {
+  readonly gvars: Int32Array;
+  readonly off: Int32Array;
+  readonly nw: Int32Array;
+  readonly cap: Int32Array;
+  readonly maxCap: number;
+  readonly maxWords: number;
+  readonly arcStart: Int32Array;
+  /** Per variable, where its predicate arcs start (not-equal arcs come first). */
+  readonly arcSplit: Int32Array;
+  readonly arcTo: Int32Array;
+  readonly arcKind: Uint8Array;
+  readonly arcData: Int32Array;
+  readonly nary: readonly LocalNary[];
+  readonly naryStart: Int32Array;
+  readonly naryList: Int32Array;
+  readonly degree: Int32Array;
+  readonly ucost: readonly (Float64Array | null)[];
+  readonly corder: readonly (Int32Array | null)[];
+  readonly costVars: Int32Array;
+  readonly bcStart: Int32Array;
+  readonly bcOther: Int32Array;
+  readonly bcTerm: Int32Array;
+  readonly bcIsX: Uint8Array;
+}
+
+/** Builds the structure of component `gvars` (ascending) for the active constraints. */
+export function buildStructure(
+  model: CompiledModel,
+  gvars: Int32Array,
+  local: Int32Array,
+  active: Uint8Array | null,
+): Structure {
+  const n = gvars.length;
+  const sizes = model.sizes;
+  const off = new Int32Array(n + 1);
+  const nw = new Int32Array(n);
+  const cap = new Int32Array(n);
+  let maxCap = 1;
+  let maxWords = 1;
+  for (let i = 0; i < n; i++) {
+    const c = sizes[gvars[i]!]!;
+    cap[i] = c;
+    nw[i] = (c + 31) >>> 5;
+    off[i + 1] = off[i]! + nw[i]!;
+    if (c > maxCap) maxCap = c;
+    if (nw[i]! > maxWords) maxWords = nw[i]!;
+  }
+  const mStart = model.arcStart;
+  const mCons = model.arcCons;
+  const mTo = model.arcTo;
+  const mKind = model.arcKind;
+  const mData = model.arcData;
+  const arcStart = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) {
+    const g = gvars[i]!;
+    let c = 0;
+    if (active === null) c = mStart[g + 1]! - mStart[g]!;
+    else for (let a = mStart[g]!; a < mStart[g + 1]!; a++) c += active[mCons[a]!]!;
+    arcStart[i + 1] = arcStart[i]! + c;
+  }
+  const m = arcStart[n]!;
+  const arcTo = new Int32Array(m);
+  const arcKind = new Uint8Array(m);
+  const arcData = new Int32Array(m);
+  const arcSplit = new Int32Array(n);
+  for (let i = 0; i < n; i++) {
+    const g = gvars[i]!;
+    let k = arcStart[i]!;
+    // Two passes: not-equal arcs first, then predicate arcs.
+    for (let pass = 0; pass < 2; pass++) {
+      if (pass === 1) arcSplit[i] = k;
+      for (let a = mStart[g]!; a < mStart[g + 1]!; a++) {
+        if (active !== null && active[mCons[a]!] !== 1) continue;
+        if ((mKind[a] === ARC_NE) !== (pass === 0)) continue;
+        arcTo[k] = local[mTo[a]!]!;
+        arcKind[k] = mKind[a]!;
+        arcData[k] = mData[a]!;
+        k++;
+      }
+    }
+  }
+
+  const seen = new Map<number, number>();
+  const nary: LocalNary[] = [];
+  const lists: number[][] = [];
+  for (let i = 0; i < n; i++) {
+    const g = gvars[i]!;
+    const mine: number[] = [];
+    for (let k = model.naryStart[g]!; k < model.naryStart[g + 1]!; k++) {
+      const ci = model.naryList[k]!;
+      const c = model.nary[ci]!;
+      if (active !== null && active[c.id] !== 1) continue;
+      let li = seen.get(ci);
+      if (li === undefined) {
+        li = nary.length;
+        seen.set(ci, li);
+        const vars = Int32Array.from(c.vars, (v) => local[v]!);
+        const supOff = new Int32Array(vars.length + 1);
+        for (let j = 0; j < vars.length; j++) supOff[j + 1] = supOff[j]! + nw[vars[j]!]!;
+        nary.push({
+          kind: c.kind,
+          vars,
+          tuples: c.tuples,
+          fn: c.fn,
+          scratch: new Array<number>(vars.length).fill(0),
+          supOff,
+          sup: new Uint32Array(c.kind === NARY_TABLE ? supOff[vars.length]! : 0),
+        });
+      }
+      mine.push(li);
+    }
+    lists.push(mine);
+  }
+  const naryStart = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) naryStart[i + 1] = naryStart[i]! + lists[i]!.length;
+  const naryList = new Int32Array(naryStart[n]!);
+  for (let i = 0; i < n; i++) naryList.set(lists[i]!, naryStart[i]!);
+
+  const ucost = Array.from(gvars, (g) => model.unaryCost[g] ?? null);
+  const corder = Array.from(gvars, (g) => model.costOrder[g] ?? null);
+  const costVars: number[] = [];
+  for (let i = 0; i < n; i++) if (ucost[i] !== null) costVars.push(i);
+  const bcStart = new Int32Array(n + 1);
+  for (let i = 0; i < n; i++) {
+    const g = gvars[i]!;
+    bcStart[i + 1] = bcStart[i]! + (model.bcostStart[g + 1]! - model.bcostStart[g]!);
+  }
+  const bcOther = new Int32Array(bcStart[n]!);
+  const bcTerm = new Int32Array(bcStart[n]!);
+  const bcIsX = new Uint8Array(bcStart[n]!);
+  for (let i = 0, k = 0; i < n; i++) {
+    const g = gvars[i]!;
+    for (let j = model.bcostStart[g]!; j < model.bcostStart[g + 1]!; j++) {
+      const t = model.bcostList[j]!;
+      const term = model.binaryCosts[t]!;
+      const isX = term.x === g;
+      bcOther[k] = local[isX ? term.y : term.x]!;
+      bcTerm[k] = t;
+      bcIsX[k] = isX ? 1 : 0;
+      k++;
+    }
+  }
+  return {
+    gvars,
+    off,
+    nw,
+    cap,
+    maxCap,
+    maxWords,
+    arcStart,
+    arcSplit,
+    arcTo,
+    arcKind,
+    arcData,
+    nary,
+    naryStart,
+    naryList,
+    degree: Int32Array.from(gvars, (g) => model.degree[g]!),
+    ucost,
+    corder,
+    costVars: Int32Array.from(costVars),
+    bcStart,
+    bcOther,
+    bcTerm,
+    bcIsX,
+  };
 }

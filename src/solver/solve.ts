@@ -2,7 +2,15 @@
 import { SlotwrightError } from '../errors.ts';
 import { BudgetMeter } from './budget.ts';
 import { components, kBestOfSum, LazyList, product } from './components.ts';
-import { Engine, type EngineSettings, PROP_ARC, PROP_FORWARD, PROP_NONE } from './engine.ts';
+import {
+  buildStructure,
+  Engine,
+  type EngineSettings,
+  PROP_ARC,
+  PROP_FORWARD,
+  PROP_NONE,
+  type Structure,
+} from './engine.ts';
 import { type CompiledModel, compiled, type Model } from './model.ts';
 import type { SolveMode, SolveOptions, SolveResult, SolveStats } from './types.ts';
 
@@ -61,6 +69,7 @@ export class Run {
   readonly #local: Int32Array;
   readonly #rootDom: Uint32Array[];
   readonly #engines: Engine[] = [];
+  readonly #structures: Structure[] = [];
 
   /** `active` marks constraint ids to keep (null = all). */
   constructor(
@@ -106,16 +115,12 @@ export class Run {
   }
 
   #fresh(k: number, settings: EngineSettings): Engine {
-    return new Engine(
-      this.model,
-      this.comps[k]!,
-      this.#local,
-      this.#rootDom,
-      this.#active,
-      settings,
-      this.meter,
-      this.stats,
-    );
+    let st = this.#structures[k];
+    if (st === undefined) {
+      st = buildStructure(this.model, this.comps[k]!, this.#local, this.#active);
+      this.#structures[k] = st;
+    }
+    return new Engine(this.model, st, this.#rootDom, settings, this.meter, this.stats);
   }
 
   /**
