@@ -11,7 +11,7 @@ import { DefaultSlotwrightService, feedBusyOf, type ServicePerson } from './app/
 import { SolvePool } from './app/solve-pool.ts';
 import { runConsole } from './bot/console.ts';
 import { Conversation } from './bot/conversation.ts';
-import { type RunningSlackApp, type SlackConnection, startSlackApp } from './bot/slack-app.ts';
+import type { RunningSlackApp, SlackConnection } from './bot/slack-app.ts';
 import { loadWorkspace } from './config/index.ts';
 import { type Result, SlotwrightError } from './errors.ts';
 import { openStore, parseStoreLocation, SqlBookingStore, SqlLedgerStore } from './store/index.ts';
@@ -208,6 +208,8 @@ export async function startSlackFromEnv(
     env.SLACK_APP_TOKEN !== undefined
       ? { mode: 'socket', appToken: env.SLACK_APP_TOKEN }
       : { mode: 'http', signingSecret: env.SLACK_SIGNING_SECRET!, port: env.PORT };
+  // Loaded only here, so the console does not pay for the Slack libraries at start.
+  const { startSlackApp } = await import('./bot/slack-app.ts');
   const running = await startSlackApp({
     botToken: env.SLACK_BOT_TOKEN,
     connection,

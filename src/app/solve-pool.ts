@@ -17,9 +17,17 @@ export interface SolvePoolOptions {
 
 /** Runs scheduling solves on worker threads so the chat event loop keeps answering. */
 export class SolvePool {
-  readonly #pool: Piscina;
+  #pool: Piscina | undefined;
+  readonly #options: SolvePoolOptions;
 
+  /** Threads start on the first task, so a process that never solves never pays for them. */
   constructor(options: SolvePoolOptions = {}) {
+    this.#options = options;
+  }
+
+  #piscina(): Piscina {
+    if (this.#pool !== undefined) return this.#pool;
+    const options = this.#options;
     const o = {
       maxThreads: Math.max(1, availableParallelism() - 1),
       minThreads: 1,
@@ -35,6 +43,7 @@ export class SolvePool {
       idleTimeout: o.idleTimeoutMs,
       maxQueue: o.maxQueue,
     });
+    return this.#pool;
   }
 
   /** Runs one task on a worker; an aborted signal stops waiting and ends the task. */
@@ -43,7 +52,7 @@ export class SolvePool {
     signal?: AbortSignal,
   ): Promise<Extract<SolveAnswer, { kind: K }>> {
     try {
-      return (await this.#pool.run(task, signal === undefined ? {} : { signal })) as Extract<
+      return (await this.#piscina().run(task, signal === undefined ? {} : { signal })) as Extract<
         SolveAnswer,
         { kind: K }
       >;
@@ -57,11 +66,12 @@ export class SolvePool {
 
   /** Tasks waiting for a thread. */
   get queued(): number {
-    return this.#pool.queueSize;
+    return this.#pool?.queueSize ?? 0;
   }
 
   /** Stops the threads. */
   async close(): Promise<void> {
-    await this.#pool.destroy();
+    await this.#pool?.destroy();
+    this.#pool = undefined;
   }
 }

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { createInterface } from 'node:readline';
 import type { Readable } from 'node:stream';
 import type { ServicePerson } from '../app/service.ts';
@@ -32,13 +33,19 @@ export async function runConsole(options: ConsoleOptions): Promise<number> {
   const { conversation, actor, out, now } = options;
   const tty = options.isTty ?? false;
   const service = conversation.service;
-  let choices: readonly ReplyAction[] = [];
-  let replyNo = 0;
+  // Delivery keys of this session must not collide with another session's in a shared store.
+  const sessionId = randomUUID();
+  // Choices are numbered across the whole session and never reused, so typing a number twice means
+  // the same button twice (done once), never some other button of a newer reply.
+  const choices = new Map<number, ReplyAction>();
+  let nextChoice = 1;
 
   const show = (reply: Parameters<typeof renderText>[0]): void => {
-    const r = renderText(reply, actor.zone);
-    replyNo++;
-    choices = r.choices;
+    const r = renderText(reply, actor.zone, nextChoice);
+    r.choices.forEach((c, i) => {
+      choices.set(nextChoice + i, c);
+    });
+    nextChoice += r.choices.length;
     out(r.text);
   };
 
@@ -60,14 +67,14 @@ export async function runConsole(options: ConsoleOptions): Promise<number> {
     try {
       if (/^\d+$/.test(line)) {
         const n = Number(line);
-        const choice = choices[n - 1];
+        const choice = choices.get(n);
         if (choice === undefined) {
           out(
-            choices.length === 0
+            choices.size === 0
               ? 'There is nothing to choose right now.'
-              : `There is no choice ${n}; pick 1 to ${choices.length}.`,
+              : `There is no choice ${n}; type one of the numbers shown in [brackets].`,
           );
-        } else if (!(await service.claimDelivery(`console:${replyNo}:${n}`, now()))) {
+        } else if (!(await service.claimDelivery(`console:${sessionId}:${n}`, now()))) {
           out(`Choice ${n} was already carried out.`);
         } else {
           out(`> ${choice.label}`);

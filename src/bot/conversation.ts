@@ -313,17 +313,28 @@ function names(a: MeetAnswer): string {
   return a.attendees.map((p) => p.name.split(' ')[0]).join(', ');
 }
 
-function breakdown(o: MeetAnswer['options'][number]): string {
+/** The score breakdown in compact form: whole fit score, parts rounded, parts that round to 0 left out. */
+export function breakdown(o: MeetAnswer['options'][number]): string {
   const parts = o.breakdown
+    .map((p) => ({ label: p.label, points: Math.round(p.points * 10) / 10 }))
     .filter((p) => p.points !== 0)
     .map((p) => `${p.label} ${p.points > 0 ? '+' : '−'}${Math.abs(p.points)}`);
-  return parts.length === 0 ? `fit ${o.score}` : `fit ${o.score} (${parts.join(', ')})`;
+  const fit = `fit ${Math.round(o.score)}`;
+  return parts.length === 0 ? fit : `${fit}: ${parts.join('; ')}`;
+}
+
+/** "30 min", "1 h", "1 h 30 min". */
+export function formatLength(minutes: number): string {
+  const h = Math.floor(minutes / 60);
+  const m = minutes % 60;
+  if (h === 0) return `${m} min`;
+  return m === 0 ? `${h} h` : `${h} h ${m} min`;
 }
 
 /** Renders the answer to a meeting request. */
 export function meetReply(a: MeetAnswer): Reply {
   const blocks: ReplyBlock[] = [];
-  const what = `${a.query.lengthMinutes} min with ${names(a)}`;
+  const what = `${formatLength(a.query.lengthMinutes)} with ${names(a)}`;
   if (a.options.length > 0) {
     blocks.push({ kind: 'text', spans: [{ kind: 'strong', text: `Options for ${what}` }] });
     a.options.slice(0, SHOWN_OPTIONS).forEach((o, i) => {
@@ -374,7 +385,7 @@ export function meetReply(a: MeetAnswer): Reply {
 function whyReply(a: MeetAnswer | undefined): Reply {
   if (a === undefined)
     return textReply("You have not asked for a meeting yet. Try 'meet 30m with @someone'.");
-  const what = `${a.query.lengthMinutes} min with ${names(a)}`;
+  const what = `${formatLength(a.query.lengthMinutes)} with ${names(a)}`;
   if (a.blockers.length === 0) {
     return textReply(
       a.options.length > 0
