@@ -35,10 +35,10 @@ const UNIT = '(minutes?|mins?|hours?|hrs?|h|days?|weeks?)';
 const AT_MOST =
   '(?:at\\s+most|no\\s+more\\s+than|not\\s+more\\s+than|max(?:imum)?(?:\\s+of)?|a\\s+maximum\\s+of|up\\s+to|only)';
 const CLOCK =
-  "(noon|midday|midnight|\\d{1,2}(?::\\d{2})?(?:\\s*(?:am|pm|a\\.m\\.|p\\.m\\.|o'?clock)(?![a-z])|(?![\\d:]|\\s*(?:st|nd|rd|th)\\b|(?:st|nd|rd|th)\\b|\\s*" +
+  "(noon|midday|midnight|\\d{1,2}(?::\\d{2})?(?:\\s*(?:am|pm|a\\.m\\.?|p\\.m\\.?|o'?clock)(?![a-z])|(?![\\d:]|\\s*(?:st|nd|rd|th)\\b|(?:st|nd|rd|th)\\b|\\s*" +
   MONTH +
   '\\b|\\s*(?:minutes?|mins?|hours?|hrs?|days?|weeks?|meetings?|calls?)\\b)))';
-const STRICT_CLOCK = '(noon|midday|midnight|\\d{1,2}(?::\\d{2})?\\s*(?:am|pm|a\\.m\\.|p\\.m\\.)(?![a-z]))';
+const STRICT_CLOCK = '(noon|midday|midnight|\\d{1,2}(?::\\d{2})?\\s*(?:am|pm|a\\.m\\.?|p\\.m\\.?)(?![a-z]))';
 const WEEKDAY =
   '(mon(?:day)?|tue(?:s(?:day)?)?|wed(?:nesday)?|thu(?:r(?:s(?:day)?)?)?|fri(?:day)?|sat(?:urday)?|sun(?:day)?)s?';
 const WORD_NUMBERS: Readonly<Record<string, number>> = {
@@ -82,7 +82,7 @@ function readClock(raw: string): ClockRead {
   const s = raw.trim();
   if (s === 'noon' || s === 'midday') return { exact: 720 };
   if (s === 'midnight') return { midnight: true };
-  const m = /^(\d{1,2})(?::(\d{2}))?\s*(am|pm|a\.m\.|p\.m\.|o'?clock)?$/.exec(s);
+  const m = /^(\d{1,2})(?::(\d{2}))?\s*(am|pm|a\.m\.?|p\.m\.?|o'?clock)?$/.exec(s);
   if (m === null) return undefined;
   const h = Number(m[1]);
   const min = m[2] === undefined ? 0 : Number(m[2]);
@@ -172,8 +172,9 @@ class Scan {
   readonly issues: RuleIssue[] = [];
 
   constructor(readonly original: string) {
-    const lowered = original.toLowerCase().replace(/[’‘`]/g, "'").replace(/#/g, ' ');
-    this.work = lowered.length === original.length ? lowered : lowered;
+    // same length as the original for ASCII text, so unread parts can be quoted in the person's own
+    // casing; `slice` falls back to the lowered text when a letter changes length when lowered
+    this.work = original.toLowerCase().replace(/[’‘`]/g, "'").replace(/#/g, ' ');
   }
 
   /** Runs a global regex over what is left; `fn` returns false to leave a match unconsumed. */

@@ -47,6 +47,11 @@ const PHRASINGS: readonly (readonly [string, Rule])[] = [
   ['between 6 and 10 no meetings', hard(avoidTimes(H(18), H(22)))], // only 18:00-22:00 fits the band
   ['no meetings between 9 and 11', hard(avoidTimes(H(9), H(11)))], // 21:00-23:00 ends past 22:00
   ['meetings must be after 10am', hard({ kind: 'window', mode: 'only', times: { from: H(10), to: 1440 } })],
+  ['no meetings before 12pm', hard(avoidTimes(0, H(12)))],
+  ["no meetings before 10 o'clock", hard(avoidTimes(0, H(10)))],
+  ['no meetings before 9 a.m.', hard(avoidTimes(0, H(9)))],
+  ['no meetings after 5 p.m. please', hard(avoidTimes(H(17), 1440))],
+  ['no meetings after 11pm', hard(avoidTimes(H(23), 1440))],
   // weekdays and parts of day
   ['No meetings on Fridays', hard({ kind: 'window', mode: 'avoid', weekdays: [5] })],
   ["I don't do meetings on weekends", hard({ kind: 'window', mode: 'avoid', weekdays: [6, 7] })],
@@ -66,6 +71,19 @@ const PHRASINGS: readonly (readonly [string, Rule])[] = [
   ],
   // preferences
   ['I prefer mornings', pref({ kind: 'window', mode: 'only', times: { part: 'morning' } })],
+  [
+    'I’d rather not meet on Tuesday mornings', // a typographic apostrophe
+    pref({ kind: 'window', mode: 'avoid', weekdays: [2], times: { part: 'morning' } }),
+  ],
+  [
+    'no meetings on Tues and Thurs afternoons',
+    hard({ kind: 'window', mode: 'avoid', weekdays: [2, 4], times: { part: 'afternoon' } }),
+  ],
+  ['no meetings on sat or sun', hard({ kind: 'window', mode: 'avoid', weekdays: [6, 7] })],
+  [
+    'No meetings from Monday to Friday before 8:15am',
+    hard({ kind: 'window', mode: 'avoid', weekdays: [1, 2, 3, 4, 5], times: { from: 0, to: H(8, 15) } }),
+  ],
   [
     "I'd rather not meet on Monday mornings",
     pref({ kind: 'window', mode: 'avoid', weekdays: [1], times: { part: 'morning' } }),
