@@ -21,9 +21,17 @@ export {
   InMemoryFairnessLedger,
   recordWeekOffHours,
 } from './fairness.ts';
+export {
+  busyByOwner,
+  type FeedFreshness,
+  type FeedSpec,
+  type FeedsDeps,
+  type OwnerBusy,
+  refreshFeeds,
+} from './feeds.ts';
 export { InMemoryRuleStore } from './in-memory-rule-store.ts';
 export { type MeetAsk, type MeetUseCaseOptions, meet } from './meet.ts';
-export type { FairnessLedger, RuleStore, StoredRule } from './ports.ts';
+export type { FairnessLedger, FeedStateStore, RuleStore, StoredRule } from './ports.ts';
 export {
   forgetRule,
   listRules,

@@ -69,6 +69,17 @@ export interface RuleStore {
 
 // --- calendar feeds ---
 
+/**
+ * Where each feed's last good busy time and fetch status are kept between refreshes.
+ * InMemoryFeedStateStore (src/calendar) implements it; an SQL one can implement the same two calls.
+ */
+export interface FeedStateStore {
+  /** The saved state of a feed, or undefined before its first refresh. */
+  load(feedId: string): Promise<import('../calendar/index.ts').FeedState | undefined>;
+  /** Saves the state of a feed, replacing the previous one. */
+  save(feedId: string, state: import('../calendar/index.ts').FeedState): Promise<void>;
+}
+
 // --- chat ---
 
 /** Where a chat message went, so it can be updated in place later. */

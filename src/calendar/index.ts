@@ -3,6 +3,7 @@
 export { isIpLiteral, refusedAddressReason } from './address-policy.ts';
 export { type BusyOptions, type BusyReport, busyFromIcs } from './busy-from-ics.ts';
 export { loadSecretKey, openSecret, type SecretKeySource, sealSecret } from './feed-secret.ts';
+export { type FeedState, InMemoryFeedStateStore } from './feed-state.ts';
 export {
   type FetchFeedOptions,
   type FetchFeedResult,

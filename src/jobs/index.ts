@@ -1,5 +1,11 @@
 // Public surface of src/jobs: named exports only, no `export *`.
 export {
+  FEED_REFRESH_JOB,
+  type FeedRefreshJob,
+  type FeedRefreshJobOptions,
+  startFeedRefreshJob,
+} from './feed-refresh.ts';
+export {
   type HoldReleaser,
   type HoldSweeper,
   type HoldSweeperOptions,
