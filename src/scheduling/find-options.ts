@@ -74,25 +74,17 @@ export function buildMeetModel(
   p: Prepared,
   region: Uint32Array | null,
   cost: (s: number) => number,
-  layers: 'each' | 'combined' = 'each',
 ): MeetModel {
   const b = new ModelBuilder();
   const startVar = b.addVariable('start', p.starts, region === null ? undefined : bitIndices(region));
-  if (layers === 'combined') {
-    // one constraint for everyone's layers: later rounds need no per-layer names, only the same answer
-    const all = fullBits(p.starts);
-    for (const a of p.attendees) if (a.required) andInto(all, a.ok);
-    b.addUnary(startVar, (s) => ((all[s >>> 5]! >>> (s & 31)) & 1) === 1, { name: "attendees' hard layers" });
-  } else {
-    for (const a of p.attendees) {
-      if (!a.required) continue;
-      for (const layer of a.hard) {
-        const bits = layer.starts;
-        b.addUnary(startVar, (s) => ((bits[s >>> 5]! >>> (s & 31)) & 1) === 1, {
-          name: layer.detail,
-          group: layer.group,
-        });
-      }
+  for (const a of p.attendees) {
+    if (!a.required) continue;
+    for (const layer of a.hard) {
+      const bits = layer.starts;
+      b.addUnary(startVar, (s) => ((bits[s >>> 5]! >>> (s & 31)) & 1) === 1, {
+        name: layer.detail,
+        group: layer.group,
+      });
     }
   }
   b.addUnaryCost(startVar, cost);
@@ -223,6 +215,40 @@ function relaxations(
 }
 
 /**
+ * One later round: a CSP over this round's candidate starts only (feasible starts outside the windows
+ * and days already used), with the room choice as before. Keeping the variable as small as the round
+ * keeps building the model cheap; the hard layers were checked by the first, full model.
+ */
+function solveRound(
+  p: Prepared,
+  candidates: readonly number[],
+  cost: (s: number) => number,
+  roomCost: readonly number[],
+): readonly number[] | null {
+  const b = new ModelBuilder();
+  const startVar = b.addVariable('start', candidates.length);
+  b.addUnaryCost(startVar, (i) => cost(candidates[i]!));
+  let roomVar = -1;
+  if (p.rooms !== null) {
+    const rooms = p.rooms;
+    roomVar = b.addVariable('room', rooms.length, roomsMeeting(p));
+    b.addBinary(startVar, roomVar, (i, r) => hasBit(rooms[r]!.free, candidates[i]!), {
+      name: "the rooms' calendars",
+      group: 'room:calendars',
+    });
+    b.addUnaryCost(roomVar, (r) => roomCost[r]!);
+  }
+  const r = solve(b.build(), {
+    propagation: 'forward',
+    variableOrder: roomVar >= 0 ? 'static' : 'mrv',
+    valueOrder: (v, value) => (v === startVar ? cost(candidates[value]!) : roomCost[value]!),
+    mode: { kind: 'best', k: 1 },
+  });
+  const sol = r.solutions[0];
+  return sol === undefined ? null : [candidates[sol[startVar]!]!, roomVar >= 0 ? sol[roomVar]! : -1];
+}
+
+/**
  * Proposes up to `request.options` options, best first, or when nothing fits names a minimal set of
  * blockers and the relaxations that would open the most starts.
  *
@@ -269,13 +295,18 @@ export function findOptions(context: SchedulingContext, request: MeetRequest): R
     return c;
   };
   const want = Math.max(1, request.options ?? 5);
+  const roomCost = (p.rooms ?? []).map((_, r) => costOf(roomParts(p, r, false)));
   const solveOne = (region: Uint32Array | null): readonly number[] | null => {
-    const m = buildMeetModel(p, region, cost, region === null ? 'each' : 'combined');
+    if (region !== null) return solveRound(p, bitIndices(region), cost, roomCost);
+    const m = buildMeetModel(p, region, cost);
     const r = solve(m.model, {
       propagation: 'forward',
-      variableOrder: 'mrv',
-      // with a room, least-constraining starts keep the most rooms open; alone, cheapest first tightens the bound
-      valueOrder: m.roomVar >= 0 ? 'lcv' : (_v, value) => cost(value),
+      // With a room, MRV would branch on the room first (fewer values) and build a support row over
+      // every start for each room, and LCV counts supports for every value; starts first, cheapest
+      // first, finds the optimum at once and the bound prunes the rest. Measured in bench/meet.ts
+      // on 5 attendees and 30 rooms: about 1.5 ms per solve with MRV and LCV, 0.3 ms this way.
+      variableOrder: m.roomVar >= 0 ? 'static' : 'mrv',
+      valueOrder: (v, value) => (v === m.startVar ? cost(value) : roomCost[value]!),
       mode: { kind: 'best', k: 1 },
     });
     const sol = r.solutions[0];
