@@ -6,11 +6,13 @@
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
 import type { Workspace } from '../config/index.ts';
 import { type Issue, type Result, SlotwrightError } from '../errors.ts';
-import { ruleEffect } from '../rules/index.ts';
+import { describeSeries, parseSeriesSentence, ruleEffect, type SeriesDraft } from '../rules/index.ts';
 import {
   findOptions,
+  isoWeekOf,
   type MeetOutcome,
   type MeetRequest,
+  mondayOfIsoWeek,
   type SchedulingContext,
   WIDEN_DAYS,
 } from '../scheduling/index.ts';
@@ -20,6 +22,8 @@ import type { BookingService, BusyOf } from './book.ts';
 import type { BookingStore, ChatUserProfile, DeliveryLog, RuleStore } from './ports.ts';
 import { forgetRule, listRules, previewRule, type RuleDeps, saveRule } from './rules.ts';
 import type { SolvePool } from './solve-pool.ts';
+import { solve as solveInProcess } from './solve-worker.ts';
+import { nextIsoWeek, weekContext } from './week.ts';
 import { fileBusy, workspaceContext } from './workspace.ts';
 
 /** A workspace person as the bot sees them. */
@@ -658,16 +662,80 @@ export class DefaultSlotwrightService implements SlotwrightService {
     };
   }
 
-  async series(_actor: ServicePerson, _text: string, _nowMs: number): Promise<Result<readonly SeriesView[]>> {
-    return notAvailable('Listing series');
+  async series(actor: ServicePerson, text: string, nowMs: number): Promise<Result<readonly SeriesView[]>> {
+    const ws = this.#o.workspace;
+    if (text.trim() !== '') {
+      // A sentence is read back so the person sees how it would be understood; series are saved in
+      // the workspace file by an admin, not from chat.
+      const parsed = parseSeriesSentence(text, {
+        now: nowMs,
+        zone: actor.zone,
+        people: ws.people.map((p) => ({
+          id: p.id,
+          name: p.name,
+          ...(p.chat === undefined ? {} : { chat: p.chat }),
+        })),
+        groups: ws.groups.map((g) => ({ id: g.id, members: g.members })),
+        rooms: ws.rooms.map((r) => ({ id: r.id, name: r.name, features: r.features })),
+        existingIds: ws.series.map((x) => x.id),
+      });
+      if (!parsed.ok) return parsed;
+      return {
+        ok: true,
+        value: [
+          {
+            id: parsed.value.series.id,
+            description: `${parsed.value.echo} (not saved: an admin adds series to the workspace file)`,
+          },
+        ],
+      };
+    }
+    return {
+      ok: true,
+      value: ws.series.map((x) => ({
+        id: x.id,
+        description: describeSeries(withoutUndefined(x) as SeriesDraft),
+      })),
+    };
   }
 
-  async week(
-    _actor: ServicePerson,
-    _weekOf: string | undefined,
-    _nowMs: number,
-  ): Promise<Result<WeekPlanView>> {
-    return notAvailable('The week plan');
+  async week(actor: ServicePerson, weekOf: string | undefined, nowMs: number): Promise<Result<WeekPlanView>> {
+    const ws = this.#o.workspace;
+    if (ws.series.length === 0)
+      return failure('no_series', 'this workspace has no recurring meetings to plan');
+    const isoWeek = weekOf === undefined ? nextIsoWeek(nowMs, ws.zone) : isoWeekOf(weekOf);
+    const monday = mondayOfIsoWeek(isoWeek);
+    const window = {
+      start: zonedToInstant(monday, 0, ws.zone) - DAY_MS,
+      end: zonedToInstant(addDays(monday, 8), 0, ws.zone),
+    };
+    const context = weekContext(ws, nowMs, window);
+    const task = { kind: 'workspace-week' as const, workspace: ws, context, isoWeek, now: nowMs };
+    const answer = this.#o.pool === undefined ? solveInProcess(task) : await this.#o.pool.run(task);
+    void actor;
+    if (answer.kind !== 'workspace-week')
+      return failure('internal', 'the week plan came back in an unknown form');
+    const r = answer.outcome;
+    if (!r.ok) return r;
+    const nameOf = (id: string) => ws.series.find((x) => x.id === id)?.name ?? id;
+    const roomName = (id: string | null) =>
+      id === null ? undefined : (ws.rooms.find((x) => x.id === id)?.name ?? id);
+    return {
+      ok: true,
+      value: {
+        weekOf: mondayOfIsoWeek(r.value.isoWeek),
+        sessions: r.value.sessions.map((x) => {
+          const room = roomName(x.room);
+          return {
+            series: nameOf(x.series),
+            start: x.start,
+            end: x.end,
+            ...(room === undefined ? {} : { room }),
+          };
+        }),
+        unplaced: r.value.unplaced.map((u) => ({ series: nameOf(u.series), reason: u.reason })),
+      },
+    };
   }
 
   claimDelivery(key: string, nowMs: number): Promise<boolean> {
@@ -734,4 +802,9 @@ export function directoryOf(workspace: Workspace): PeopleDirectory {
     }),
   );
   return new PeopleDirectory(people, new Map(workspace.groups.map((g) => [g.id.toLowerCase(), g.members])));
+}
+
+/** A copy without keys whose value is undefined (schema output to exact optional types). */
+function withoutUndefined<T extends object>(o: T): T {
+  return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
 }
