@@ -21,6 +21,7 @@ export {
 export type { BookingState, StoreDialect, StoreSchema } from './schema.ts';
 export { SecretBox } from './secret-box.ts';
 export { SqlBookingStore } from './sql-booking-store.ts';
+export { type SavedFeedState, SqlFeedStateStore } from './sql-feed-state-store.ts';
 export {
   type AuditEntry,
   hashToken,

@@ -220,6 +220,32 @@ function initial(dialect: StoreDialect): Migration {
   };
 }
 
+/** Fetch state per feed id (workspace feeds too, which have no `feed` row): last good busy time and status. */
+function feedState(): Migration {
+  return {
+    async up(db: Db) {
+      await db.schema
+        .createTable('feed_state')
+        .addColumn('feed_id', 'text', (c) => c.primaryKey())
+        .addColumn('busy', 'text', notNull)
+        .addColumn('horizon_start_ms', 'bigint', notNull)
+        .addColumn('horizon_end_ms', 'bigint', notNull)
+        .addColumn('warnings', 'text', notNull)
+        .addColumn('skipped', 'integer', notNull)
+        .addColumn('fetched_ms', 'bigint')
+        .addColumn('attempted_ms', 'bigint', notNull)
+        .addColumn('etag', 'text')
+        .addColumn('last_modified', 'text')
+        .addColumn('error_code', 'text')
+        .addColumn('error_message', 'text')
+        .execute();
+    },
+    async down(db: Db) {
+      await db.schema.dropTable('feed_state').ifExists().execute();
+    },
+  };
+}
+
 /** The migrations of the store, in code so they ship with the build; one dialect-aware set. */
 export class StoreMigrationProvider implements MigrationProvider {
   readonly #dialect: StoreDialect;
@@ -231,6 +257,6 @@ export class StoreMigrationProvider implements MigrationProvider {
 
   /** The migrations by name; names sort in the order they run. */
   async getMigrations(): Promise<Record<string, Migration>> {
-    return { '0001-initial': initial(this.#dialect) };
+    return { '0001-initial': initial(this.#dialect), '0002-feed-state': feedState() };
   }
 }

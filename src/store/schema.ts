@@ -162,6 +162,22 @@ export interface SubscriptionTokenTable {
   revoked_ms: number | null;
 }
 
+/** Fetch state of one feed: the last good busy time (JSON) and how the last refresh went. */
+export interface FeedStateTable {
+  feed_id: string;
+  busy: string;
+  horizon_start_ms: number;
+  horizon_end_ms: number;
+  warnings: string;
+  skipped: number;
+  fetched_ms: number | null;
+  attempted_ms: number;
+  etag: string | null;
+  last_modified: string | null;
+  error_code: string | null;
+  error_message: string | null;
+}
+
 /** The whole schema, one type for both engines. */
 export interface StoreSchema {
   person: PersonTable;
@@ -180,4 +196,5 @@ export interface StoreSchema {
   delivery: DeliveryTable;
   audit: AuditTable;
   subscription_token: SubscriptionTokenTable;
+  feed_state: FeedStateTable;
 }

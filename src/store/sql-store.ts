@@ -1,6 +1,7 @@
 import { type OpenStoreOptions, openStore, type StoreHandle, type StoreLocation } from './open-store.ts';
 import type { SecretBox } from './secret-box.ts';
 import { SqlBookingStore } from './sql-booking-store.ts';
+import { SqlFeedStateStore } from './sql-feed-state-store.ts';
 import { SqlLedgerStore } from './sql-ledger-store.ts';
 import { SqlRuleStore } from './sql-rule-store.ts';
 import { SqlWorkspaceStore } from './sql-workspace-store.ts';
@@ -11,6 +12,7 @@ export interface SqlStore {
   readonly bookings: SqlBookingStore;
   readonly ledger: SqlLedgerStore;
   readonly rules: SqlRuleStore;
+  readonly feedStates: SqlFeedStateStore;
   readonly workspace: SqlWorkspaceStore;
   close(): Promise<void>;
 }
@@ -22,6 +24,7 @@ export function sqlStoreOn(handle: StoreHandle, box: SecretBox): SqlStore {
     bookings: new SqlBookingStore(handle),
     ledger: new SqlLedgerStore(handle),
     rules: new SqlRuleStore(handle),
+    feedStates: new SqlFeedStateStore(handle),
     workspace: new SqlWorkspaceStore(handle, box),
     close: () => handle.close(),
   };

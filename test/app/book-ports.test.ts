@@ -4,10 +4,11 @@ import type {
   BookingStore,
   DeliveryLog,
   FairnessLedger,
+  FeedStateStore,
   RuleStore,
   SubscriptionTokens,
 } from '../../src/app/ports.ts';
-import { SqlBookingStore, SqlLedgerStore, SqlRuleStore } from '../../src/store/index.ts';
+import { SqlBookingStore, SqlFeedStateStore, SqlLedgerStore, SqlRuleStore } from '../../src/store/index.ts';
 
 // The SQL stores live in src/store and must not import src/app, so they meet the ports by shape.
 // The type checks run in `tsc --noEmit` (npm run typecheck); the runtime checks catch a method
@@ -38,5 +39,10 @@ describe('SQL stores implement the app ports', () => {
   it('SqlRuleStore is a RuleStore', () => {
     expectTypeOf<SqlRuleStore>().toExtend<RuleStore>();
     expect(methodsOf(SqlRuleStore)).toEqual(expect.arrayContaining(['list', 'add', 'remove']));
+  });
+
+  it('SqlFeedStateStore is a FeedStateStore', () => {
+    expectTypeOf<SqlFeedStateStore>().toExtend<FeedStateStore>();
+    expect(methodsOf(SqlFeedStateStore)).toEqual(expect.arrayContaining(['load', 'save']));
   });
 });

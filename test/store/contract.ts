@@ -2,13 +2,14 @@ import { type ChildProcess, spawn } from 'node:child_process';
 import { createInterface } from 'node:readline';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { RuleStore } from '../../src/app/ports.ts';
+import type { FeedStateStore, RuleStore } from '../../src/app/ports.ts';
 import { parseRule } from '../../src/rules/index.ts';
 import {
   type BookingAttendee,
   hashToken,
   type ReserveInput,
   SecretBox,
+  SqlFeedStateStore,
   SqlRuleStore,
   type SqlStore,
   sqlStoreOn,
@@ -463,6 +464,46 @@ export function storeContract(name: string, factory: StoreFactory): void {
           .execute();
         await expect(rules.list('maren')).rejects.toThrow(/does not match the rule structure/);
         await sut.handle.db.deleteFrom('rule').where('id', '=', 'rule-m0').execute();
+      });
+    });
+
+    describe('feed state port', () => {
+      it('saves and replaces the state of a feed, keeping the last good busy time beside an error', async () => {
+        const states: FeedStateStore = new SqlFeedStateStore(sut.handle);
+        expect(await states.load('juno:feeds/juno.ics')).toBeUndefined();
+        const good = {
+          busy: [
+            { start: T0, end: T0 + H, kind: 'busy' as const },
+            { start: T0 + 2 * H, end: T0 + 3 * H, kind: 'tentative' as const },
+          ],
+          horizon: { start: T0 - 24 * H, end: T0 + 14 * 24 * H },
+          warnings: ['one event had no end; read as lasting zero minutes'],
+          skipped: 1,
+          fetchedAt: T0 - H,
+          attemptedAt: T0 - H,
+          etag: '"abc"',
+          lastModified: 'Tue, 01 Dec 2026 17:00:00 GMT',
+          lastError: undefined,
+        };
+        await states.save('juno:feeds/juno.ics', good);
+        expect(await states.load('juno:feeds/juno.ics')).toEqual(good);
+        const failed = {
+          ...good,
+          attemptedAt: T0,
+          lastError: { code: 'feed_timeout', message: 'no answer in 10 s' },
+        };
+        await states.save('juno:feeds/juno.ics', failed);
+        expect(await states.load('juno:feeds/juno.ics')).toEqual(failed);
+        const fresh = {
+          ...good,
+          etag: undefined,
+          lastModified: undefined,
+          fetchedAt: undefined,
+          busy: [],
+          warnings: [],
+        };
+        await states.save('room:tejo', fresh);
+        expect(await states.load('room:tejo')).toEqual(fresh);
       });
     });
 

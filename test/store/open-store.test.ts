@@ -47,6 +47,7 @@ describe('openStoreFromEnv', () => {
           'delivery',
           'fairness',
           'feed',
+          'feed_state',
           'group_',
           'occupancy',
           'person',
