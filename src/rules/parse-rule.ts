@@ -358,6 +358,36 @@ function monthNumber(word: string | undefined): number | undefined {
 function scanDates(scan: Scan, ctx: RuleContext, found: Found): void {
   const today = todayIn(ctx);
   const SEP = '\\s*(?:to|until|till|through|thru|-|–)\\s*';
+  const UNTIL = '\\b(?:until|till|through|thru)\\s+';
+  // "until the 5th", "through 2027-01-04": from today to that date, both included
+  scan.take(`${UNTIL}(\\d{4}-\\d{2}-\\d{2})\\b`, (m) => {
+    try {
+      const to = Temporal.PlainDate.from(m[1]!, { overflow: 'reject' });
+      if (Temporal.PlainDate.compare(to, today) < 0) {
+        scan.issues.push({
+          code: 'rule_unreadable',
+          path: ['dates'],
+          message: `I could not read '${m[0].trim()}': that date has passed`,
+          suggestions: [],
+        });
+        return;
+      }
+      found.dates.push({ from: today.toString(), to: to.toString() });
+    } catch {
+      scan.issues.push({
+        code: 'rule_unreadable',
+        path: ['dates'],
+        message: `I could not read '${m[0].trim()}': it is not a calendar date (use YYYY-MM-DD)`,
+        suggestions: [],
+      });
+    }
+  });
+  scan.take(`${UNTIL}(?:the\\s+)?(\\d{1,2})(?:st|nd|rd|th)(?:\\s+(?:of\\s+)?(${MONTH}))?\\b`, (m) => {
+    const end = nextDate(today, Number(m[1]), monthNumber(m[2]));
+    if (end === undefined) return false;
+    found.dates.push({ from: today.toString(), to: end.toString() });
+    return true;
+  });
   scan.take(`\\b(?:from\\s+)?(\\d{4}-\\d{2}-\\d{2})(?:${SEP}(\\d{4}-\\d{2}-\\d{2}))?\\b`, (m) => {
     try {
       const from = Temporal.PlainDate.from(m[1]!, { overflow: 'reject' });
@@ -566,6 +596,32 @@ function scanZone(scan: Scan, found: Found): void {
   scan.take('\\b(?:in\\s+)?(utc|gmt)\\b', () => setZone('UTC'));
 }
 
+/** "this week", "next week", "this weekend", "next weekend", "this month", "next month" as date ranges. */
+function scanPeriods(scan: Scan, ctx: RuleContext, found: Found): void {
+  const today = todayIn(ctx);
+  const monday = today.subtract({ days: today.dayOfWeek - 1 });
+  const later = (a: Temporal.PlainDate, b: Temporal.PlainDate): Temporal.PlainDate =>
+    Temporal.PlainDate.compare(a, b) >= 0 ? a : b;
+  scan.take('\\b(this|next|coming)\\s+(week|weekend|month)\\b', (m) => {
+    const which = m[1] === 'this' || (m[1] === 'coming' && m[2] === 'weekend') ? 0 : 1;
+    let from: Temporal.PlainDate;
+    let to: Temporal.PlainDate;
+    if (m[2] === 'week') {
+      from = which === 0 ? today : monday.add({ days: 7 });
+      to = monday.add({ days: 7 * which + 6 });
+    } else if (m[2] === 'weekend') {
+      // like chrono-node's "next Friday", "next weekend" is the weekend of next week
+      from = later(today, monday.add({ days: 7 * which + 5 }));
+      to = monday.add({ days: 7 * which + 6 });
+    } else {
+      const first = today.toPlainYearMonth().add({ months: which }).toPlainDate({ day: 1 });
+      from = which === 0 ? today : first;
+      to = first.add({ months: 1 }).subtract({ days: 1 });
+    }
+    found.dates.push({ from: from.toString(), to: to.toString() });
+  });
+}
+
 function scanDays(scan: Scan, found: Found): void {
   scan.take('\\b(?:in\\s+the\\s+|during\\s+the\\s+|on\\s+|the\\s+)?(morning|afternoon|evening)s?\\b', (m) => {
     found.parts.add(m[1] as DayPart);
@@ -603,6 +659,16 @@ function scanChrono(scan: Scan, ctx: RuleContext, found: Found): void {
   const results = chrono.parse(scan.work, ref, { forwardDate: true });
   for (const r of results) {
     if (!RELATIVE_DATE.test(r.text)) continue;
+    if (/\b(?:weeks?|weekends?|months?|years?)\b/.test(r.text)) {
+      scan.issues.push({
+        code: 'rule_ambiguous',
+        path: ['dates'],
+        message: `'${r.text.trim()}' does not name the days exactly; say the first and last day, like 'from the 21st to the 2nd'`,
+        suggestions: [],
+      });
+      scan.blank(r.index, r.text.length);
+      continue;
+    }
     const slash = /\b(\d{1,2})[/.](\d{1,2})\b/.exec(r.text);
     if (slash !== null && Number(slash[1]) <= 12 && Number(slash[2]) <= 12 && slash[1] !== slash[2]) {
       scan.issues.push({
@@ -616,8 +682,11 @@ function scanChrono(scan: Scan, ctx: RuleContext, found: Found): void {
     }
     const toDate = (c: chrono.ParsedComponents): Temporal.PlainDate =>
       Temporal.PlainDate.from({ year: c.get('year')!, month: c.get('month')!, day: c.get('day')! });
-    const start = toDate(r.start);
-    let end = r.end === null || r.end === undefined ? start : toDate(r.end);
+    const until = /\b(?:until|till|through|thru)\s+$/.exec(scan.work.slice(0, r.index));
+    const single = r.end === null || r.end === undefined;
+    const start = until !== null && single ? today : toDate(r.start);
+    let end = single ? toDate(r.start) : toDate(r.end!);
+    if (until !== null && single) scan.blank(until.index, until[0].length);
     if (Temporal.PlainDate.compare(end, start) < 0) {
       end = r.end?.isCertain('month') === true ? end.add({ years: 1 }) : end.add({ months: 1 });
     }
@@ -844,6 +913,7 @@ export function parseRule(text: string, context: RuleContext): RuleParse {
   scanDates(scan, context, found);
   scanClocks(scan, found);
   scanZone(scan, found);
+  scanPeriods(scan, context, found);
   scanDays(scan, found);
   scanChrono(scan, context, found);
   scanMarkers(scan, found);

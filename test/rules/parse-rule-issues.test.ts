@@ -84,6 +84,21 @@ const TABLE: readonly Row[] = [
     ['No meetings on 2026-12-24', 'No meetings on 2026-12-31'],
   ],
   [
+    'no meetings in 2 weeks',
+    'rule_ambiguous',
+    "'in 2 weeks' does not name the days exactly; say the first and last day, like 'from the 21st to the 2nd'",
+  ],
+  [
+    'no meetings next year',
+    'rule_ambiguous',
+    "'next year' does not name the days exactly; say the first and last day, like 'from the 21st to the 2nd'",
+  ],
+  [
+    'I am out until 2026-11-05',
+    'rule_unreadable',
+    "I could not read 'until 2026-11-05': that date has passed",
+  ],
+  [
     'no meetings on Fridays and the 24th',
     'rule_ambiguous',
     "'no meetings on Fridays and the 24th' names both dates and weekdays; say one of them",

@@ -152,6 +152,16 @@ const PHRASINGS: readonly (readonly [string, Rule])[] = [
   ],
   // chrono-node reads "next Friday" from a Tuesday as the Friday of next week
   ['no meetings next Friday', hard({ kind: 'dates', mode: 'avoid', from: '2026-12-11', to: '2026-12-11' })],
+  ['no meetings this friday', hard({ kind: 'dates', mode: 'avoid', from: '2026-12-04', to: '2026-12-04' })],
+  // ISO weeks run Monday to Sunday (ISO 8601); "next weekend" is the weekend of next week, like "next Friday"
+  ['no meetings next week', hard({ kind: 'dates', mode: 'avoid', from: '2026-12-07', to: '2026-12-13' })],
+  ['no meetings this week', hard({ kind: 'dates', mode: 'avoid', from: '2026-12-01', to: '2026-12-06' })],
+  ["I'm out this weekend", hard({ kind: 'dates', mode: 'avoid', from: '2026-12-05', to: '2026-12-06' })],
+  ["I'm out next weekend", hard({ kind: 'dates', mode: 'avoid', from: '2026-12-12', to: '2026-12-13' })],
+  ['no meetings next month', hard({ kind: 'dates', mode: 'avoid', from: '2027-01-01', to: '2027-01-31' })],
+  ["I'm out until the 5th", hard({ kind: 'dates', mode: 'avoid', from: '2026-12-01', to: '2026-12-05' })],
+  ["I'm out until Jan 5", hard({ kind: 'dates', mode: 'avoid', from: '2026-12-01', to: '2027-01-05' })],
+  ['off through 2027-01-04', hard({ kind: 'dates', mode: 'avoid', from: '2026-12-01', to: '2027-01-04' })],
   ["I'm off tomorrow", hard({ kind: 'dates', mode: 'avoid', from: '2026-12-02', to: '2026-12-02' })],
   ['no meetings on 2027-01-05', hard({ kind: 'dates', mode: 'avoid', from: '2027-01-05', to: '2027-01-05' })],
   [
