@@ -13,7 +13,9 @@ export {
 } from './hold-sweeper.ts';
 export {
   advisoryKey,
+  type CronSlotTables,
   type JobRunTables,
+  PgCronRunCoordinator,
   PgRunOnceCoordinator,
   type PgRunOnceOptions,
   type RunOnceCoordinator,

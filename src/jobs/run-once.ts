@@ -1,4 +1,5 @@
 import { Kysely, PostgresDialect, sql } from 'kysely';
+import type { RunCoordinator } from 'node-cron';
 import type pg from 'pg';
 
 /** How a coordinated run ended on this replica. */
@@ -128,5 +129,61 @@ export class PgRunOnceCoordinator implements RunOnceCoordinator {
       .where('run_key', '=', key)
       .executeTakeFirst();
     return row?.replica;
+  }
+}
+
+/** The table the cron-slot coordinator records elected slots in. */
+export interface CronSlotTables {
+  slotwright_cron_slot: { slot_key: string; replica: string; at_ms: number };
+}
+
+/**
+ * node-cron's `RunCoordinator` on PostgreSQL, for jobs that run often (the hold sweeper): node-cron asks
+ * once per fire with a key made of the task name and the slot's instant; the first replica to insert
+ * that key runs it, every other replica is told no. Slots older than a day are pruned as it goes.
+ */
+export class PgCronRunCoordinator implements RunCoordinator {
+  readonly #db: Kysely<CronSlotTables>;
+  readonly #replica: string;
+  readonly #clock: () => number;
+  #ready: Promise<void> | undefined;
+
+  /** Runs on a pg pool the caller owns and ends. */
+  constructor(pool: pg.Pool, options: PgRunOnceOptions = {}) {
+    this.#db = new Kysely<CronSlotTables>({ dialect: new PostgresDialect({ pool }) });
+    this.#replica = options.replica ?? 'replica';
+    this.#clock = options.clock ?? Date.now;
+  }
+
+  /** Creates the slot table when it is missing. */
+  ensureTable(): Promise<void> {
+    this.#ready ??= this.#db.transaction().execute(async (trx) => {
+      await sql`select pg_advisory_xact_lock(${advisoryKey('slotwright_cron_slot')}, 0)`.execute(trx);
+      await trx.schema
+        .createTable('slotwright_cron_slot')
+        .ifNotExists()
+        .addColumn('slot_key', 'text', (c) => c.primaryKey())
+        .addColumn('replica', 'text', (c) => c.notNull())
+        .addColumn('at_ms', 'bigint', (c) => c.notNull())
+        .execute();
+    });
+    return this.#ready;
+  }
+
+  /** True for exactly one replica per slot key. */
+  async shouldRun(key: string, _ttlMs: number): Promise<boolean> {
+    await this.ensureTable();
+    const now = this.#clock();
+    await this.#db
+      .deleteFrom('slotwright_cron_slot')
+      .where('at_ms', '<', now - 86_400_000)
+      .execute();
+    const row = await this.#db
+      .insertInto('slotwright_cron_slot')
+      .values({ slot_key: key, replica: this.#replica, at_ms: now })
+      .onConflict((oc) => oc.column('slot_key').doNothing())
+      .returning('slot_key')
+      .executeTakeFirst();
+    return row !== undefined;
   }
 }

@@ -1,9 +1,16 @@
 import { execFile } from 'node:child_process';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
+import cron from 'node-cron';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { advisoryKey, PgRunOnceCoordinator, SingleProcessCoordinator } from '../../src/jobs/run-once.ts';
+import {
+  advisoryKey,
+  PgCronRunCoordinator,
+  PgRunOnceCoordinator,
+  SingleProcessCoordinator,
+} from '../../src/jobs/run-once.ts';
+import { startWeekPostJob } from '../../src/jobs/week-post.ts';
 
 const run = promisify(execFile);
 const URL = process.env.SLOTWRIGHT_TEST_DATABASE_URL;
@@ -81,8 +88,18 @@ describe.skipIf(URL === undefined)(
         ['busy', 'ran'],
         ['done', 'ran'],
       ]).toContainEqual(sorted);
-      const late = JSON.parse((await spawn('replica-c')).stdout.trim()) as { outcome: string };
-      expect(late.outcome).toBe('done');
+      // A third replica that wakes late (here in this process) finds the week already posted.
+      const late = startWeekPostJob(
+        { post: 'fri 14:00', channel: 'C0DEMO01', zone: 'Europe/Lisbon' },
+        {
+          postWeekPlan: async () => {
+            throw new Error('a late replica must not post');
+          },
+        },
+        new PgRunOnceCoordinator(poolFor(), { replica: 'replica-c' }),
+      );
+      expect(await late.fire(Number(firedAt))).toBe('done');
+      await late.stop();
       const posts = await admin.query(`select replica, iso_week from ${schema}.posts`);
       expect(posts.rows).toEqual([
         { replica: outcomes.find((o) => o.outcome === 'ran')!.replica, iso_week: '2026-W44' },
@@ -122,6 +139,31 @@ describe.skipIf(URL === undefined)(
       expect(await two.runOnce('week-plan-post', 'C0Y:2027-W03', async () => {})).toBe('ran');
       release();
       expect(await first).toBe('ran');
+    });
+
+    it('node-cron tasks on two replicas with the cron-slot coordinator run each slot once', async () => {
+      const runs: { replica: string; slot: string }[] = [];
+      const tasks = ['east', 'west'].map((replica) =>
+        cron.schedule('* * * * * *', (ctx) => void runs.push({ replica, slot: ctx.date.toISOString() }), {
+          name: 'coordination-check',
+          distributed: true,
+          runCoordinator: new PgCronRunCoordinator(poolFor(), { replica }),
+        }),
+      );
+      await new Promise((r) => setTimeout(r, 3500));
+      for (const t of tasks) await t.destroy();
+      const slots = runs.map((r) => r.slot);
+      expect(slots.length).toBeGreaterThanOrEqual(2);
+      expect(new Set(slots).size).toBe(slots.length);
+    });
+
+    it('the cron-slot coordinator elects one of two replicas asking at once', async () => {
+      const a = new PgCronRunCoordinator(poolFor(), { replica: 'a' });
+      const b = new PgCronRunCoordinator(poolFor(), { replica: 'b' });
+      const key = 'sweep:2026-12-01T18:00:00.000Z';
+      const answers = await Promise.all([a.shouldRun(key, 0), b.shouldRun(key, 0)]);
+      expect(answers.sort()).toEqual([false, true]);
+      expect(await a.shouldRun('sweep:2026-12-01T18:01:00.000Z', 0)).toBe(true);
     });
   },
 );
