@@ -601,8 +601,44 @@ export class Engine {
   #forward(x: number, a: number): boolean {
     const val = this.#val;
     const stats = this.#stats;
-    for (let i = this.#arcStart[x]!; i < this.#arcStart[x + 1]!; i++) {
-      const y = this.#arcTo[i]!;
+    const arcTo = this.#arcTo;
+    const arcData = this.#arcData;
+    const dom = this.#dom;
+    const off = this.#off;
+    const cap = this.#cap;
+    const size = this.#size;
+    const stamp = this.#stamp;
+    const frame = this.#frame;
+    const first = this.#arcStart[x]!;
+    const split = this.#arcSplit[x]!;
+    const end = this.#arcStart[x + 1]!;
+    // Not-equal arcs, inlined: the hot loop of models like n-queens.
+    let visited = 0;
+    let pruned = 0;
+    let ok = true;
+    for (let i = first; i < split; i++) {
+      const y = arcTo[i]!;
+      if (val[y]! >= 0) continue;
+      visited++;
+      const b = a + arcData[i]!;
+      if (b < 0 || b >= cap[y]!) continue;
+      const idx = off[y]! + (b >>> 5);
+      const w = dom[idx]!;
+      const bit = 1 << (b & 31);
+      if ((w & bit) === 0) continue;
+      if (stamp[idx] !== frame) this.#save(idx, y);
+      dom[idx] = w & ~bit;
+      pruned++;
+      if (--size[y]! === 0) {
+        ok = false;
+        break;
+      }
+    }
+    stats.propagations += visited;
+    stats.pruned += pruned;
+    if (!ok) return false;
+    for (let i = split; i < end; i++) {
+      const y = arcTo[i]!;
       if (val[y]! >= 0) continue;
       stats.propagations++;
       if (this.#filterBy(i, a, y) < 0) return false;
