@@ -1,4 +1,4 @@
-import { improve, ModelBuilder, minimalConflict, solve } from '../../solver/index.ts';
+import { improve, ModelBuilder, minimalConflict, type SolveResult, solve } from '../../solver/index.ts';
 import {
   buildImproveModel,
   buildPlaceModel,
@@ -135,6 +135,12 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
 
   const R = request.rooms.length;
   const RS = space.roomSlots;
+  // expected sessions wanting each cell, spread evenly over each series' candidate cells
+  const demand = new Float64Array(request.cells.length);
+  request.series.forEach((s, i) => {
+    const cells = new Set(Array.from(space.candidates[i]!, (v) => space.cellOf(v)));
+    for (const c of cells) demand[c]! += s.sessions / cells.size;
+  });
   const toValues = (model: WeekModel, solution: readonly number[]): Int32Array => {
     const out = new Int32Array(n).fill(-1);
     model.sessions.forEach((session, v) => {
@@ -150,31 +156,39 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     share: number,
   ): { model: WeekModel; values: Int32Array | null; proven: boolean } => {
     const model = buildPlaceModel(space, series);
-    // values in grid order first, with a small node budget: on roomy weeks it places everything
-    // without backtracking; tight weeks thrash there, so they go on to least-constraining values
-    let res = solve(model.model, {
-      propagation: 'forward',
-      variableOrder: 'mrv',
-      valueOrder: 'natural',
-      budget: { nodes: 2 * model.model.variableCount + 100, ...timeBudget(1) },
-      seed: o.seed,
-    });
-    if (res.status === 'incomplete') {
-      searchNodes += res.stats.nodes;
+    // Three value orders, each with a node budget, first success wins: cheapest-first (own cost, then
+    // least-demanded cells) gives the best starts when it does not thrash; grid order places roomy
+    // weeks without backtracking; least-constraining values are the fallback for tight weeks.
+    const cheapFirst = (variable: number, value: number): number => {
+      const session = model.sessions[variable]!;
+      if (model.isStart[variable] === 0)
+        return scorer.unaryCost(session, value) * 100 + demand[space.cellOf(value)]!;
+      const ser = request.series[space.sessionSeries[session]!]!;
+      return demand[value]! + (ser.room === undefined ? scorer.unaryCost(session, value * RS + R) * 100 : 0);
+    };
+    const vars = model.model.variableCount;
+    const attempts = [
+      { valueOrder: cheapFirst, nodes: 20 * vars + 1000, share: 0.5 },
+      { valueOrder: 'natural' as const, nodes: 2 * vars + 100, share: 0.5 },
+      { valueOrder: 'lcv' as const, nodes: o.searchNodes, share },
+    ];
+    let res: SolveResult | undefined;
+    for (const a of attempts) {
       res = solve(model.model, {
         propagation: 'forward',
         variableOrder: 'mrv',
-        valueOrder: 'lcv',
-        budget: { nodes: o.searchNodes, ...timeBudget(share) },
+        valueOrder: a.valueOrder,
+        budget: { nodes: a.nodes, ...timeBudget(a.share) },
         seed: o.seed,
       });
+      searchNodes += res.stats.nodes;
+      if (res.status !== 'incomplete') break;
     }
-    searchNodes += res.stats.nodes;
-    const sol = res.solutions[0];
+    const sol = res?.solutions[0];
     return {
       model,
       values: sol === undefined ? null : toValues(model, sol),
-      proven: res.status === 'unsatisfiable',
+      proven: res?.status === 'unsatisfiable',
     };
   };
 
@@ -235,36 +249,30 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   // 4. improve the preference cost in rounds, each from the best plan so far
   let moves = 0;
   let rounds = 0;
-  const known = new Int32Array(n).fill(-1);
-  const sync = (assignment: readonly number[]) => {
-    // the engine hands us whole assignments; keep the counters in step with the one it asks about
-    for (let v = 0; v < assignment.length; v++) {
-      const session = model.sessions[v]!;
-      const value = assignment[v]!;
-      if (known[session] !== value) {
-        scorer.set(session, value);
-        known[session] = value;
-      }
-    }
-  };
+  // descent rounds move in a model without the room rules and pay for room clashes in the cost:
+  // each candidate value then checks a handful of attendee constraints instead of every room pair
+  const descentModel = buildImproveModel(space, active, { rooms: false });
+  const bridge = new ScorerBridge(scorer, model.sessions, n, 0);
+  const descentBridge = new ScorerBridge(scorer, descentModel.sessions, n, CLASH_WEIGHT);
   let assignment = Array.from(model.sessions, (session) => values[session]!);
   while (model.model.variableCount > 0 && moves < o.moves) {
     const r = remaining();
     if (r !== undefined && r <= 0) break;
-    const roundMoves = Math.min(o.roundMoves, o.moves - moves);
-    known.set(values);
+    // Rounds alternate: min-conflicts moves one session to its best value (steepest descent, which
+    // finds the few improving moves of a tight week), annealing walks wider with cheap random moves.
+    const descent = rounds % 2 === 0;
+    const roundMoves = Math.min(
+      descent ? Math.max(20, Math.round(o.roundMoves / 30)) : o.roundMoves,
+      o.moves - moves,
+    );
+    const b = descent ? descentBridge : bridge;
     scorer.load(values);
-    const res = improve(model.model, assignment, {
-      method: 'annealing',
-      objective: (a) => {
-        sync(a);
-        return scorer.total();
-      },
-      delta: (a, variable, value) => {
-        sync(a);
-        return scorer.delta(model.sessions[variable]!, value);
-      },
-      moves: ['change', 'swap'],
+    b.reset(values);
+    const res = improve(descent ? descentModel.model : model.model, assignment, {
+      method: descent ? 'min-conflicts' : 'annealing',
+      objective: b.objective,
+      delta: b.delta,
+      moves: descent ? ['change'] : ['change', 'swap'],
       budget: { nodes: roundMoves, ...(r === undefined || clock === undefined ? {} : { timeMs: r, clock }) },
       seed: o.seed + rounds * 7919,
     });
@@ -277,7 +285,12 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
       });
       scorer.load(candidate);
       const cost = scorer.total();
-      if (cost < best - 1e-9 && scorer.clashes() === 0 && countViolations(space, candidate) === 0) {
+      if (
+        cost < best - 1e-9 &&
+        scorer.clashes() === 0 &&
+        scorer.roomClashes() === 0 &&
+        countViolations(space, candidate) === 0
+      ) {
         best = cost;
         values.set(candidate);
         assignment = [...res.assignment];
@@ -315,6 +328,56 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
       initialCost,
       feasibleMs,
     },
+  };
+}
+
+/**
+ * Keeps the scorer's counters in step with the assignment the engine's local search works on. The
+ * engine changes a variable only through a move whose cost it first asks for with `delta`, so only
+ * the variables asked about since the last call can have changed: checking those keeps each call
+ * O(attendees of the moved session). `objective` (a whole assignment) resynchronizes everything.
+ */
+class ScorerBridge {
+  readonly #scorer: WeekScorer;
+  readonly #sessions: Int32Array;
+  readonly #known: Int32Array;
+  readonly #asked: number[] = [];
+  readonly #roomClashWeight: number;
+
+  constructor(scorer: WeekScorer, sessions: Int32Array, sessionCount: number, roomClashWeight: number) {
+    this.#scorer = scorer;
+    this.#roomClashWeight = roomClashWeight;
+    this.#sessions = sessions;
+    this.#known = new Int32Array(sessionCount).fill(-1);
+  }
+
+  #put(v: number, value: number): void {
+    const session = this.#sessions[v]!;
+    if (this.#known[session] !== value) {
+      this.#scorer.set(session, value);
+      this.#known[session] = value;
+    }
+  }
+
+  /** Starts over from per-session values the scorer has just been loaded with. */
+  reset(values: Int32Array): void {
+    this.#known.set(values);
+    this.#asked.length = 0;
+  }
+
+  /** The whole assignment's cost. */
+  readonly objective = (a: readonly number[]): number => {
+    for (let v = 0; v < a.length; v++) this.#put(v, a[v]!);
+    this.#asked.length = 0;
+    return this.#scorer.total() + this.#scorer.roomClashes() * this.#roomClashWeight;
+  };
+
+  /** The cost change if variable `v` took `value`. */
+  readonly delta = (a: readonly number[], v: number, value: number): number => {
+    for (const w of this.#asked) this.#put(w, a[w]!);
+    this.#asked.length = 0;
+    this.#asked.push(v);
+    return this.#scorer.delta(this.#sessions[v]!, value, 0, this.#roomClashWeight);
   };
 }
 

@@ -79,6 +79,10 @@ export class WeekScorer {
   readonly #isolatedWeight: number;
   /** Attendee-cells with more than one session (each extra session counts once). */
   #clashes = 0;
+  /** Sessions covering each room slot x cell (the "no room" slot is not counted). */
+  readonly #roomOcc: Uint16Array;
+  /** Room-cells with more than one session (each extra session counts once). */
+  #roomClashes = 0;
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -96,6 +100,7 @@ export class WeekScorer {
     this.#starts = new Uint16Array(A * C);
     this.#seriesDay = new Uint16Array(S * req.days);
     this.#seriesRoom = new Uint16Array(S * RS);
+    this.#roomOcc = new Uint16Array(RS * C);
     this.#prefDays = new Float64Array(S * C);
     this.#prefHours = new Float64Array(S * C);
     this.#usual = new Float64Array(S * C);
@@ -167,6 +172,8 @@ export class WeekScorer {
     this.#seriesRoom.fill(0);
     this.#value.fill(-1);
     this.#clashes = 0;
+    this.#roomOcc.fill(0);
+    this.#roomClashes = 0;
     for (let i = 0; i < this.#value.length; i++) {
       const v = values[i] ?? -1;
       if (v >= 0) this.#add(i, v);
@@ -195,7 +202,10 @@ export class WeekScorer {
       for (let k = 0; k < ser.length; k++) if (this.#occ[a * C + c + k]!++ > 0) this.#clashes++;
     }
     this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!++;
-    this.#seriesRoom[s * this.#RS + sp.roomOf(v)]!++;
+    const r = sp.roomOf(v);
+    this.#seriesRoom[s * this.#RS + r]!++;
+    if (r !== this.#RS - 1)
+      for (let k = 0; k < ser.length; k++) if (this.#roomOcc[r * C + c + k]!++ > 0) this.#roomClashes++;
     this.#value[i] = v;
   }
 
@@ -211,7 +221,10 @@ export class WeekScorer {
       for (let k = 0; k < ser.length; k++) if (--this.#occ[a * C + c + k]! > 0) this.#clashes--;
     }
     this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!--;
-    this.#seriesRoom[s * this.#RS + sp.roomOf(v)]!--;
+    const r = sp.roomOf(v);
+    this.#seriesRoom[s * this.#RS + r]!--;
+    if (r !== this.#RS - 1)
+      for (let k = 0; k < ser.length; k++) if (--this.#roomOcc[r * C + c + k]! > 0) this.#roomClashes--;
     this.#value[i] = -1;
   }
 
@@ -311,11 +324,16 @@ export class WeekScorer {
     return this.#clashes;
   }
 
+  /** Room double-bookings, counted per room-cell and extra session. */
+  roomClashes(): number {
+    return this.#roomClashes;
+  }
+
   /**
-   * Change of the total cost if `session` took `value` (-1 = out), plus `clashWeight` per clash
-   * added; the state is left as it was.
+   * Change of the total cost if `session` took `value` (-1 = out), plus `clashWeight` per attendee
+   * clash and `roomClashWeight` per room clash added; the state is left as it was.
    */
-  delta(session: number, value: number, clashWeight = 0): number {
+  delta(session: number, value: number, clashWeight = 0, roomClashWeight = 0): number {
     const old = this.#value[session]!;
     if (old === value) return 0;
     const sp = this.#space;
@@ -324,10 +342,16 @@ export class WeekScorer {
     const d0 = old >= 0 ? cells[sp.cellOf(old)]!.day : -1;
     const d1 = value >= 0 ? cells[sp.cellOf(value)]!.day : -1;
     const before =
-      this.#localOf(s, d0, d1) + (old >= 0 ? this.#unaryOf(s, old) : 0) + this.#clashes * clashWeight;
+      this.#localOf(s, d0, d1) +
+      (old >= 0 ? this.#unaryOf(s, old) : 0) +
+      this.#clashes * clashWeight +
+      this.#roomClashes * roomClashWeight;
     this.set(session, value);
     const after =
-      this.#localOf(s, d0, d1) + (value >= 0 ? this.#unaryOf(s, value) : 0) + this.#clashes * clashWeight;
+      this.#localOf(s, d0, d1) +
+      (value >= 0 ? this.#unaryOf(s, value) : 0) +
+      this.#clashes * clashWeight +
+      this.#roomClashes * roomClashWeight;
     this.set(session, old);
     return after - before;
   }
