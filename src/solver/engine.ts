@@ -17,6 +17,9 @@ import {
 import { Prng } from './prng.ts';
 import type { SolveStats, ValueScorer } from './types.ts';
 
+// Open variables with more values than this are left out of the binary part of the cost bound.
+const BOUND_SCAN_LIMIT = 32;
+
 /** Plain backtracking: check constraints against assigned variables only. */
 export const PROP_NONE = 0;
 /** Forward checking. */
@@ -75,6 +78,7 @@ export class Engine {
   readonly #bcOther: Int32Array;
   readonly #bcTerm: Int32Array;
   readonly #bcIsX: Uint8Array;
+  readonly #bcVars: Int32Array;
   // state
   readonly #dom: Uint32Array;
   readonly #size: Int32Array;
@@ -174,6 +178,9 @@ export class Engine {
     this.#bcOther = st.bcOther;
     this.#bcTerm = st.bcTerm;
     this.#bcIsX = st.bcIsX;
+    const bcVars: number[] = [];
+    for (let i = 0; i < n; i++) if (st.bcStart[i + 1]! > st.bcStart[i]!) bcVars.push(i);
+    this.#bcVars = settings.useBound ? Int32Array.from(bcVars) : new Int32Array(0);
     const maxCap = st.maxCap;
     this.#varAt = new Int32Array(n);
     this.#cursor = new Int32Array(n);
@@ -416,6 +423,31 @@ export class Engine {
           lb += this.#ucost[v]![a]!;
           break;
         }
+      }
+    }
+    // Binary terms between an assigned and an open variable: the open side's cheapest value, when it
+    // has few enough values for that to be cheap to find. Terms are >= 0, so the sum stays a bound.
+    const val = this.#val;
+    for (let k = 0; k < this.#bcVars.length; k++) {
+      const v = this.#bcVars[k]!;
+      if (val[v]! >= 0 || this.#size[v]! > BOUND_SCAN_LIMIT) continue;
+      const off = this.#off[v]!;
+      for (let t = this.#bcStart[v]!; t < this.#bcStart[v + 1]!; t++) {
+        const o = val[this.#bcOther[t]!]!;
+        if (o < 0) continue;
+        const term = this.#model.binaryCosts[this.#bcTerm[t]!]!;
+        const isX = this.#bcIsX[t] === 1;
+        let best = Number.POSITIVE_INFINITY;
+        for (let w = 0; w < this.#nw[v]!; w++) {
+          let word = dom[off + w]!;
+          while (word !== 0) {
+            const b = (w << 5) + lowestBit(word);
+            word &= word - 1;
+            const c = isX ? term.fn(b, o) : term.fn(o, b);
+            if (c < best) best = c;
+          }
+        }
+        if (best !== Number.POSITIVE_INFINITY) lb += checkedCost(best);
       }
     }
     return lb;

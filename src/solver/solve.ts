@@ -39,8 +39,8 @@ function resolve(model: CompiledModel, options: SolveOptions): Resolved {
   if (mode.kind === 'best' && !(Number.isInteger(mode.k) && mode.k >= 1)) {
     throw bad(`mode.k must be an integer >= 1, got ${String(mode.k)}`);
   }
-  if (mode.kind === 'all' && mode.limit !== undefined && !(mode.limit >= 0)) {
-    throw bad(`mode.limit must be >= 0, got ${String(mode.limit)}`);
+  if (mode.kind === 'all' && mode.limit !== undefined && !(mode.limit >= 1)) {
+    throw bad(`mode.limit must be >= 1 (leave it out for no limit), got ${String(mode.limit)}`);
   }
   if (mode.kind !== 'first' && mode.kind !== 'all' && mode.kind !== 'best') {
     throw bad(`mode.kind must be 'first', 'all' or 'best'`);
@@ -218,11 +218,9 @@ export function solve(model: Model, options: SolveOptions = {}): SolveResult {
     }
   } else if (mode.kind === 'all') {
     const limit = mode.limit ?? Number.POSITIVE_INFINITY;
-    if (limit > 0) {
-      for (const s of run.all()) {
-        found.push(s);
-        if (found.length >= limit) break;
-      }
+    for (const s of run.all()) {
+      found.push(s);
+      if (found.length >= limit) break;
     }
     costs = found.map((s) => m.costOf(s));
   } else {
