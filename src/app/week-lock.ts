@@ -71,6 +71,8 @@ export interface WeekLockOutcome {
   readonly moved: readonly MovedSession[];
   /** Sessions left unbooked, with the reason. */
   readonly pending: readonly PendingSession[];
+  /** Series the plan itself could not place; nothing of them is booked. */
+  readonly unplaced: readonly { readonly series: string; readonly reason: string }[];
   /** Bookings of an earlier lock cancelled because their session moved. */
   readonly cancelled: readonly string[];
   readonly invites: readonly WeekInvite[];
@@ -271,6 +273,7 @@ export async function lockWeek(
     kept,
     moved,
     pending,
+    unplaced: plan.unplaced.map((u) => ({ series: u.series, reason: u.reason })),
     cancelled,
     invites,
     ...(offHours === undefined ? {} : { offHours }),
@@ -476,8 +479,10 @@ export function describeWeekLock(outcome: WeekLockOutcome, zone: string): string
   }
   for (const p of outcome.pending)
     lines.push(`${p.series}: ${when(p.start)} is not booked yet: ${p.reason}.`);
-  if (outcome.pending.length > 0)
+  for (const u of outcome.unplaced) lines.push(`${u.series}: the plan found no time for it (${u.reason}).`);
+  if (outcome.pending.length + outcome.unplaced.length > 0) {
     lines.push('The week is not fully booked until the sessions above are placed.');
+  }
   if (outcome.cancelled.length > 0)
     lines.push(`${outcome.cancelled.length} earlier booking(s) moved and were cancelled.`);
   return lines;

@@ -178,6 +178,29 @@ describe('lockWeek', () => {
     for (const p of ['ines', 'rui']) expect(overlapsWithin(await bookingsOf(p))).toBe(false);
   });
 
+  it('names the series the plan itself left out, so a locked week never looks complete when it is not', async () => {
+    const partial: WorkspaceWeekPlan = {
+      ...plan,
+      complete: false,
+      unplaced: [
+        {
+          series: 'leads-sync',
+          code: 'no_free_start',
+          blockers: [],
+          reason: 'no common free time for a session: no start fits',
+        },
+      ],
+    };
+    const out = await lockWeek(deps, workspace, context, partial, { actor: 'ines', domain: DOMAIN });
+    expect(out.unplaced).toEqual([
+      { series: 'leads-sync', reason: 'no common free time for a session: no start fits' },
+    ]);
+    expect(describeWeekLock(out, workspace.zone).slice(1)).toEqual([
+      'leads-sync: the plan found no time for it (no common free time for a session: no start fits).',
+      'The week is not fully booked until the sessions above are placed.',
+    ]);
+  });
+
   it('lists a session as pending, and books the rest, when no other time fits', async () => {
     // Maren is away for the whole week (booked from Monday to Saturday).
     const away = await service.bookDirect('maren', {
