@@ -32,6 +32,8 @@ export interface HardLayer {
 export interface AttendeeView {
   readonly person: SchedulingPerson;
   readonly required: boolean;
+  /** Wall clock of the attendee's zone over the grid. */
+  readonly clock: ZoneClock;
   readonly hard: readonly HardLayer[];
   /** Starts every hard layer allows. */
   readonly ok: Uint32Array;
@@ -312,6 +314,7 @@ function attendeeView(
   return {
     person,
     required,
+    clock: clocks(person.zone),
     hard,
     ok: all,
     tentative,

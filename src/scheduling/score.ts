@@ -1,4 +1,4 @@
-import { instantToZoned } from '../time/zoned.ts';
+import type { ZoneClock } from '../time/working-hours.ts';
 import { hasBit, runEndAt, runStartAt } from './bits.ts';
 import type { AttendeeView, Prepared } from './prepare.ts';
 import type { ScorePart } from './types.ts';
@@ -42,8 +42,8 @@ function names(list: readonly string[]): string {
   return list.length <= 4 ? list.join(', ') : `${list.slice(0, 4).join(', ')} and ${list.length - 4} more`;
 }
 
-function hhmm(instant: number, zone: string): string {
-  const m = instantToZoned(instant, zone).minutes;
+function hhmm(instant: number, clock: ZoneClock): string {
+  const m = Math.floor(((((instant + clock.offsetAt(instant)) % DAY_MS) + DAY_MS) % DAY_MS) / 60_000);
   return `${String(Math.floor(m / 60)).padStart(2, '0')}:${String(m % 60).padStart(2, '0')}`;
 }
 
@@ -84,7 +84,7 @@ export function startParts(p: Prepared, s: number, words: boolean): ScorePart[] 
       const minutes = (early + late) * tickMin;
       if (minutes > 0) {
         edge += minutes * EDGE_POINTS_PER_MINUTE;
-        if (words) edgeWho.push(`${a.person.id} (${hhmm(startAt, a.person.zone)} ${a.person.zone})`);
+        if (words) edgeWho.push(`${a.person.id} (${hhmm(startAt, a.clock)} ${a.person.zone})`);
       }
     }
     if (hasBit(a.freeTicks, s) && runEndAt(a.freeTicks, s) >= e) {

@@ -89,6 +89,10 @@ export interface ZoneClock {
   toInstant(date: string, minutes: number): number;
   /** Local date `YYYY-MM-DD` of an instant. */
   dateOf(instant: number): string;
+  /** Local civil day of an instant, as days since 1970-01-01. */
+  dayOf(instant: number): number;
+  /** Instant of a local civil day (days since 1970-01-01) and minutes since its midnight. */
+  toInstantDay(day: number, minutes: number): number;
 }
 
 function civil(date: string): number {
@@ -122,7 +126,10 @@ export function zoneClock(zone: string, span: Interval): ZoneClock {
     zone,
     offsetAt,
     toInstant(date, minutes) {
-      const wall = civil(date) + minutes * 60_000;
+      return this.toInstantDay(civil(date) / DAY_MS, minutes);
+    },
+    toInstantDay(day, minutes) {
+      const wall = day * DAY_MS + minutes * 60_000;
       const before = offsetAt(wall - DAY_MS);
       const after = offsetAt(wall + DAY_MS);
       const c1 = wall - before;
@@ -136,6 +143,9 @@ export function zoneClock(zone: string, span: Interval): ZoneClock {
     },
     dateOf(t) {
       return isoDate(Math.floor((t + offsetAt(t)) / DAY_MS) * DAY_MS);
+    },
+    dayOf(t) {
+      return Math.floor((t + offsetAt(t)) / DAY_MS);
     },
   };
 }
@@ -164,17 +174,16 @@ export function workingIntervals(
 ): Interval[] {
   if (window.end <= window.start) return [];
   // one day of slack each side: the window edges can fall on another local date than in UTC
-  let date = nextDate(clock.dateOf(window.start), -1);
-  const last = nextDate(clock.dateOf(window.end), 1);
+  const last = clock.dayOf(window.end) + 1;
   const out: Interval[] = [];
-  while (date <= last) {
-    const key = WEEKDAY_KEYS[isoWeekday(date) - 1]!;
+  for (let day = clock.dayOf(window.start) - 1; day <= last; day++) {
+    // 1970-01-01 was a Thursday (ISO weekday 4)
+    const key = WEEKDAY_KEYS[(((day + 3) % 7) + 7) % 7]!;
     for (const r of hours[key] ?? []) {
-      const start = Math.max(window.start, clock.toInstant(date, r.start));
-      const end = Math.min(window.end, clock.toInstant(date, r.end));
+      const start = Math.max(window.start, clock.toInstantDay(day, r.start));
+      const end = Math.min(window.end, clock.toInstantDay(day, r.end));
       if (end > start) out.push({ start, end });
     }
-    date = nextDate(date, 1);
   }
   return mergeIntervals(out);
 }
