@@ -277,7 +277,7 @@ class FeedReader {
 
   // RFC 5545 section 3.8.5.3: a DTEND gives every instance the same exact duration, a DURATION the
   // same nominal one; with neither, a DATE start lasts one day and a DATE-TIME start no time.
-  lengthOf(comp: IcalComponent, start: IcalTime, where: string): Length | undefined {
+  lengthOf(comp: IcalComponent, start: IcalTime, where: Where): Length | undefined {
     const endProp = comp.getFirstProperty('dtend');
     if (endProp !== null) {
       const end = endProp.getFirstValue() as IcalTime;
@@ -299,7 +299,7 @@ class FeedReader {
     return start.isDate ? { days: 1, ms: 0 } : { days: 0, ms: 0 };
   }
 
-  #negative(where: string): undefined {
+  #negative(where: Where): undefined {
     this.warnings.push(`${where}: ends before it starts; left out`);
     this.skipped++;
     return undefined;
@@ -316,7 +316,7 @@ class FeedReader {
       this.raw.push({ start, end, kind });
   }
 
-  readEvent(comp: IcalComponent, where: string, overridden: ReadonlySet<number> | undefined): void {
+  readEvent(comp: IcalComponent, where: Where, overridden: ReadonlySet<number> | undefined): void {
     const startProp = comp.getFirstProperty('dtstart');
     const ridProp = comp.getFirstProperty('recurrence-id');
     if (startProp === null && ridProp === null) {
@@ -348,7 +348,7 @@ class FeedReader {
     zone: ZoneRef,
     length: Length,
     kind: BusyKind,
-    where: string,
+    where: Where,
     overridden: ReadonlySet<number> | undefined,
   ): void {
     // ical.js compares a UTC UNTIL with local instance times as if both were UTC; restating UNTIL
@@ -432,7 +432,7 @@ class FeedReader {
     }
   }
 
-  readFreeBusy(comp: IcalComponent, where: string): void {
+  readFreeBusy(comp: IcalComponent, where: Where): void {
     for (const p of comp.getAllProperties('freebusy')) {
       const fbtype = String(p.getParameter('fbtype') ?? 'BUSY').toUpperCase();
       if (fbtype === 'FREE') continue;
@@ -462,9 +462,14 @@ function cleanMessage(error: unknown): string {
     .slice(0, 160);
 }
 
+/** Names a component in warnings; the line is found only when a warning is written. */
+interface Where {
+  toString(): string;
+}
+
 interface Child {
   readonly jcal: Jcal;
-  readonly where: string;
+  readonly where: Where;
 }
 
 function describe(name: string, line: number | undefined, index: number): string {
@@ -477,9 +482,9 @@ function rootsOf(parsed: unknown): Jcal[] {
 }
 
 // Parses the whole text with ical.js; when that fails, parses each top-level component on its own
-// so one broken event does not hide the rest, and reports each broken one by name and line.
+// so one broken event does not hide the rest, and reports each broken one by name and line. The
+// line scan runs only when needed (a failed parse or a warning), as it costs time on big feeds.
 function childrenOf(text: string, reader: { warnings: string[]; skipped: number }): Child[] {
-  const scan = scanIcs(text);
   let roots: Jcal[] | undefined;
   let wholeError: unknown;
   try {
@@ -494,13 +499,19 @@ function childrenOf(text: string, reader: { warnings: string[]; skipped: number 
         'ics_invalid',
         'not an iCalendar feed: no BEGIN:VCALENDAR found at line 1 or later',
       );
-    const aligned =
-      jcals.length === scan.components.length && jcals.every((j, i) => j[0] === scan.components[i]!.name);
-    return jcals.map((jcal, i) => ({
-      jcal,
-      where: describe(jcal[0], aligned ? scan.components[i]!.line : undefined, i),
-    }));
+    let lines: (number | undefined)[] | undefined;
+    const lineOf = (i: number): number | undefined => {
+      if (lines === undefined) {
+        const scan = scanIcs(text);
+        const aligned =
+          jcals.length === scan.components.length && jcals.every((j, k) => j[0] === scan.components[k]!.name);
+        lines = jcals.map((_, k) => (aligned ? scan.components[k]!.line : undefined));
+      }
+      return lines[i];
+    };
+    return jcals.map((jcal, i) => ({ jcal, where: { toString: () => describe(jcal[0], lineOf(i), i) } }));
   }
+  const scan = scanIcs(text);
   if (scan.calendars === 0)
     throw new SlotwrightError(
       'ics_invalid',
@@ -523,6 +534,41 @@ function childrenOf(text: string, reader: { warnings: string[]; skipped: number 
   return out;
 }
 
+// jCal date and date-time values as ical.js's parser writes them ("2026-12-07", "2026-12-07T09:00:00").
+const JCAL_TIME = /^(\d{4})-(\d{2})-(\d{2})(?:T(\d{2}):(\d{2}):(\d{2}))?/;
+
+function jcalPseudo(value: unknown): number | undefined {
+  if (typeof value !== 'string') return undefined;
+  const m = JCAL_TIME.exec(value);
+  if (m === null) return undefined;
+  return Date.UTC(+m[1]!, +m[2]! - 1, +m[3]!, +(m[4] ?? 0), +(m[5] ?? 0), +(m[6] ?? 0));
+}
+
+// A single event far outside the window can be passed over from its raw jCal values, before ical.js
+// builds any objects for it; anything unusual goes the full way.
+function clearlyOutside(jcal: Jcal, window: Interval): boolean {
+  let start: number | undefined;
+  let end: number | undefined;
+  let durationMs: number | undefined;
+  for (const prop of jcal[1] as unknown[][]) {
+    const name = prop[0];
+    if (name === 'rrule' || name === 'rdate' || name === 'recurrence-id') return false;
+    if (name === 'dtstart') start = jcalPseudo(prop[3]);
+    else if (name === 'dtend') end = jcalPseudo(prop[3]);
+    else if (name === 'duration' && typeof prop[3] === 'string') {
+      try {
+        durationMs = ICAL.Duration.fromString(prop[3]).toSeconds() * 1000;
+      } catch {
+        return false;
+      }
+    }
+  }
+  if (start === undefined) return false;
+  if (start > window.end + SLACK_MS) return true;
+  const last = end ?? start + Math.max(durationMs ?? DAY_MS, DAY_MS);
+  return last < window.start - SLACK_MS;
+}
+
 /**
  * Reads an iCalendar feed (RFC 5545) into busy time over a window. Titles, descriptions, places and
  * attendees are never copied out; only the busy stretches, warnings and a count of skipped parts are.
@@ -540,8 +586,8 @@ export function busyFromIcs(icsText: string, options: BusyOptions): BusyReport {
   const collector = { warnings: [] as string[], skipped: 0 };
   const children = childrenOf(icsText, collector);
   const vtimezones = new Map<string, Jcal>();
-  const events: { comp: IcalComponent; where: string }[] = [];
-  const freeBusy: { comp: IcalComponent; where: string }[] = [];
+  const events: { comp: IcalComponent; where: Where }[] = [];
+  const freeBusy: { comp: IcalComponent; where: Where }[] = [];
   for (const child of children) {
     const name = child.jcal[0];
     try {
@@ -551,8 +597,9 @@ export function busyFromIcs(icsText: string, options: BusyOptions): BusyReport {
       if (name === 'vtimezone') {
         const tzid = comp.getFirstPropertyValue('tzid');
         if (typeof tzid === 'string') vtimezones.set(tzid, child.jcal);
-      } else if (name === 'vevent') events.push({ comp, where: child.where });
-      else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
+      } else if (name === 'vevent') {
+        if (!clearlyOutside(child.jcal, window)) events.push({ comp, where: child.where });
+      } else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
     } catch (error) {
       collector.warnings.push(`${child.where} could not be read: ${cleanMessage(error)}; left out`);
       collector.skipped++;
@@ -564,7 +611,7 @@ export function busyFromIcs(icsText: string, options: BusyOptions): BusyReport {
 
   // Changed instances (RECURRENCE-ID) replace the master's instance at that original time.
   const overrides = new Map<string, Set<number>>();
-  const masters: { comp: IcalComponent; where: string }[] = [];
+  const masters: { comp: IcalComponent; where: Where }[] = [];
   for (const e of events) {
     try {
       const rid = e.comp.getFirstPropertyValue('recurrence-id') as IcalTime | null;

@@ -1,0 +1,180 @@
+// Benchmark of feed reading: a generated feed of 10,000 VEVENTs (500 weekly series, each with a
+// moved and a cancelled instance, and single events) read over 8 weeks. It measures ical.js parsing
+// alone (a) and the whole busy-time pipeline (b, which includes that parse) in the same run and
+// reports b/a; absolute times depend on the machine, the ratio much less.
+import { setFlagsFromString } from 'node:v8';
+import { runInNewContext } from 'node:vm';
+import ICAL from 'ical.js';
+import { busyFromIcs } from '../src/calendar/index.ts';
+
+interface Row {
+  readonly name: string;
+  readonly medianMs: number;
+  readonly minMs: number;
+  readonly heapAfterRunMb: number;
+  readonly retainedMb: number;
+  readonly ratioToParse?: number;
+  readonly busyIntervals?: number;
+}
+
+const EVENTS = 10_000;
+const SERIES = 500;
+const WINDOW = { start: Date.UTC(2026, 11, 7), end: Date.UTC(2026, 11, 7) + 8 * 7 * 86_400_000 };
+
+function pad(n: number): string {
+  return String(n).padStart(2, '0');
+}
+
+/** The generated feed; deterministic (no randomness) so runs compare. */
+export function generateFeed(): string {
+  const zones = ['Europe/Lisbon', 'America/Halifax', 'Pacific/Auckland'];
+  const lines = ['BEGIN:VCALENDAR', 'VERSION:2.0', 'PRODID:-//slotwright//bench//EN'];
+  let count = 0;
+  for (let s = 0; s < SERIES; s++) {
+    const zone = zones[s % 3]!;
+    const day = 2 + (s % 5);
+    const hour = 8 + (s % 9);
+    const uid = `series-${s}@bench.example`;
+    lines.push(
+      'BEGIN:VEVENT',
+      `UID:${uid}`,
+      'DTSTAMP:20261101T000000Z',
+      `DTSTART;TZID=${zone}:202611${pad(day)}T${pad(hour)}0000`,
+      `DTEND;TZID=${zone}:202611${pad(day)}T${pad(hour)}3000`,
+      'RRULE:FREQ=WEEKLY',
+      `SUMMARY:Weekly series ${s}`,
+      'DESCRIPTION:A recurring meeting with a description long enough to be realistic.',
+      'END:VEVENT',
+      // moved instance in the window
+      'BEGIN:VEVENT',
+      `UID:${uid}`,
+      'DTSTAMP:20261101T000000Z',
+      `RECURRENCE-ID;TZID=${zone}:202612${pad(day + 7)}T${pad(hour)}0000`,
+      `DTSTART;TZID=${zone}:202612${pad(day + 7)}T${pad(hour + 1)}0000`,
+      `DTEND;TZID=${zone}:202612${pad(day + 7)}T${pad(hour + 1)}3000`,
+      `SUMMARY:Weekly series ${s} (moved)`,
+      'END:VEVENT',
+      // cancelled instance
+      'BEGIN:VEVENT',
+      `UID:${uid}`,
+      'DTSTAMP:20261101T000000Z',
+      `RECURRENCE-ID;TZID=${zone}:202612${pad(day + 14)}T${pad(hour)}0000`,
+      `DTSTART;TZID=${zone}:202612${pad(day + 14)}T${pad(hour)}0000`,
+      'STATUS:CANCELLED',
+      'END:VEVENT',
+    );
+    count += 3;
+  }
+  for (let i = 0; count < EVENTS; i++, count++) {
+    const zone = zones[i % 3]!;
+    // single events spread over a year around the window
+    const start = Date.UTC(2026, 8, 1) + (i % 365) * 86_400_000 + (8 + (i % 10)) * 3_600_000;
+    const d = new Date(start);
+    const stamp = `${d.getUTCFullYear()}${pad(d.getUTCMonth() + 1)}${pad(d.getUTCDate())}T${pad(d.getUTCHours())}${pad(d.getUTCMinutes())}00`;
+    lines.push(
+      'BEGIN:VEVENT',
+      `UID:single-${i}@bench.example`,
+      'DTSTAMP:20261101T000000Z',
+      `DTSTART;TZID=${zone}:${stamp}`,
+      'DURATION:PT45M',
+      i % 7 === 0 ? 'STATUS:TENTATIVE' : 'STATUS:CONFIRMED',
+      `SUMMARY:Single event ${i}`,
+      `LOCATION:Room ${i % 12}`,
+      `ATTENDEE;PARTSTAT=ACCEPTED:mailto:person${i % 40}@bench.example`,
+      'END:VEVENT',
+    );
+  }
+  lines.push('END:VCALENDAR');
+  return lines.join('\r\n');
+}
+
+function gcFunction(): (() => void) | undefined {
+  try {
+    setFlagsFromString('--expose-gc');
+    return runInNewContext('gc') as () => void;
+  } catch {
+    return undefined;
+  }
+}
+
+function measure(
+  name: string,
+  runs: number,
+  fn: () => unknown,
+  gc: (() => void) | undefined,
+): Row & { last: unknown } {
+  const times: number[] = [];
+  let heapAfter = 0;
+  let retained = 0;
+  let last: unknown;
+  for (let i = 0; i < runs; i++) {
+    gc?.();
+    const before = process.memoryUsage().heapUsed;
+    const t0 = performance.now();
+    last = fn();
+    times.push(performance.now() - t0);
+    // heap right after the run, before any collection: an upper-bound view of what the run held
+    heapAfter = Math.max(heapAfter, process.memoryUsage().heapUsed - before);
+    gc?.();
+    retained = Math.max(retained, process.memoryUsage().heapUsed - before);
+  }
+  times.sort((a, b) => a - b);
+  const mb = (b: number) => Math.round((b / 1048576) * 10) / 10;
+  return {
+    name,
+    medianMs: Math.round(times[Math.floor(times.length / 2)]! * 10) / 10,
+    minMs: Math.round(times[0]! * 10) / 10,
+    heapAfterRunMb: mb(heapAfter),
+    retainedMb: mb(retained),
+    last,
+  };
+}
+
+/** Runs the feed benchmark; `--json` prints the rows as one JSON array on the last line. */
+export async function run(args: readonly string[]): Promise<number> {
+  const json = args.includes('--json');
+  const runsArg = args.find((a) => a.startsWith('--runs='));
+  const runs = runsArg === undefined ? 7 : Math.max(1, Number(runsArg.slice(7)));
+  const text = generateFeed();
+  const gc = gcFunction();
+  const pipeline = () =>
+    busyFromIcs(text, { window: WINDOW, zone: 'Europe/Lisbon', expansionTimeBudgetMs: 60_000 });
+  // warm both paths once so the first measured run is not the JIT's
+  ICAL.parse(text);
+  pipeline();
+  const a = measure('a: ical.js parse', runs, () => ICAL.parse(text), gc);
+  const b = measure('b: whole pipeline', runs, pipeline, gc);
+  const report = b.last as ReturnType<typeof busyFromIcs>;
+  const rows: Row[] = [
+    {
+      name: a.name,
+      medianMs: a.medianMs,
+      minMs: a.minMs,
+      heapAfterRunMb: a.heapAfterRunMb,
+      retainedMb: a.retainedMb,
+    },
+    {
+      name: b.name,
+      medianMs: b.medianMs,
+      minMs: b.minMs,
+      heapAfterRunMb: b.heapAfterRunMb,
+      retainedMb: b.retainedMb,
+      ratioToParse: Math.round((b.medianMs / a.medianMs) * 100) / 100,
+      busyIntervals: report.busy.length,
+    },
+  ];
+  const out = (s: string) => process.stdout.write(`${s}\n`);
+  out(
+    `feed: ${EVENTS} VEVENTs (${SERIES} weekly series with a moved and a cancelled instance), ${text.length} chars`,
+  );
+  out(
+    `window: 8 weeks from 2026-12-07; ${runs} runs each; gc ${gc === undefined ? 'not available' : 'forced between runs'}`,
+  );
+  for (const r of rows)
+    out(
+      `${r.name.padEnd(20)} median ${String(r.medianMs).padStart(8)} ms  min ${String(r.minMs).padStart(8)} ms  heap after run ${r.heapAfterRunMb} MB  retained ${r.retainedMb} MB${r.ratioToParse === undefined ? '' : `  b/a ${r.ratioToParse}`}`,
+    );
+  if (report.warnings.length > 0) out(`warnings: ${report.warnings.length} (first: ${report.warnings[0]})`);
+  if (json) out(JSON.stringify(rows));
+  return 0;
+}
