@@ -1,4 +1,4 @@
-// Minimal conflicts over constraint groups, by deletion with a bounded consistency check per step.
+// Minimal conflicts over constraint groups: QuickXplain with a bounded consistency check per step.
 import { SlotwrightError } from '../errors.ts';
 import { BudgetMeter } from './budget.ts';
 import { type CompiledModel, compiled, type Model } from './model.ts';
@@ -64,18 +64,40 @@ export function minimalConflict(
   }
   for (const g of candidates) on[g] = 0;
   if (check() === false) return [];
-  for (const g of candidates) on[g] = 1;
-  // Deletion: drop each group whose removal keeps the rest unsatisfiable.
-  const kept: number[] = [];
-  for (const g of candidates) {
-    on[g] = 0;
+  // QuickXplain (Junker 2004) over the candidates; the groups outside them stay on throughout.
+  // `consistent` switches on exactly the given candidates; an inconclusive check counts as
+  // consistent, which only ever keeps more groups, so the answer stays a conflict.
+  let inconclusive = false;
+  const consistent = (set: readonly number[]): boolean => {
+    for (const g of candidates) on[g] = 0;
+    for (const g of set) on[g] = 1;
     const r = check();
-    if (r !== false) {
-      on[g] = 1;
-      kept.push(g);
+    if (r === null) inconclusive = true;
+    return r !== false;
+  };
+  const qx = (background: number[], delta: boolean, c: number[]): number[] => {
+    if (delta && !consistent(background)) return [];
+    if (c.length === 1) return c;
+    const half = c.length >> 1;
+    const c1 = c.slice(0, half);
+    const c2 = c.slice(half);
+    const d2 = qx([...background, ...c1], c1.length > 0, c2);
+    const d1 = qx([...background, ...d2], d2.length > 0, c1);
+    return [...d1, ...d2];
+  };
+  let answer = qx([], false, candidates);
+  if (inconclusive) {
+    // Some check ran out of budget: a deletion pass over the (small) answer restores minimality
+    // wherever the checks now finish.
+    const kept: number[] = [];
+    for (let i = 0; i < answer.length; i++) {
+      if (consistent([...kept, ...answer.slice(i + 1)])) kept.push(answer[i]!);
     }
+    answer = kept;
   }
-  return kept.map((g) => m.groups[g]!);
+  const order = new Map(candidates.map((g, i) => [g, i] as const));
+  answer.sort((a, b) => order.get(a)! - order.get(b)!);
+  return answer.map((g) => m.groups[g]!);
 }
 
 function omitNodes(b: Budget): Budget {

@@ -27,6 +27,28 @@ describe('minimalConflict', () => {
     expect(minimalConflict(model, ['room 1 closed'])).toEqual([]);
   });
 
+  it('says when even the first check cannot finish within the budget', () => {
+    const b = new ModelBuilder();
+    const vars = Array.from({ length: 9 }, (_, i) => b.addVariable(`v${i}`, 8));
+    b.addAllDifferent(vars, { name: 'nine into eight' });
+    // The all-different pigeonhole check refutes this at the root, without a single node.
+    expect(minimalConflict(b.build(), undefined, { budget: { nodes: 1 } })).toEqual(['nine into eight']);
+    // Nine queens on nine rows of eight columns: pairwise not-equal needs search to refute.
+    const hard = new ModelBuilder();
+    const n = 9;
+    for (let i = 0; i < n; i++) hard.addVariable(`r${i}`, n - 1);
+    for (let i = 0; i < n; i++) {
+      for (let j = i + 1; j < n; j++) {
+        hard.addNotEqualOffset(i, j, j - i, { name: 'diagonals' });
+        hard.addNotEqualOffset(i, j, i - j, { name: 'diagonals' });
+        hard.addNotEqual(i, j, { name: `column ${i}-${j}`, group: 'columns' });
+      }
+    }
+    expect(() => minimalConflict(hard.build(), undefined, { budget: { nodes: 1 } })).toThrow(
+      /could not decide whether the model has a solution within the budget/,
+    );
+  });
+
   it('refuses unknown group names with the list of known ones', () => {
     expect(() => minimalConflict(queens(3), ['no such'])).toThrow(/no constraint group named "no such"/);
   });
