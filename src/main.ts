@@ -14,7 +14,13 @@ import { Conversation } from './bot/conversation.ts';
 import type { RunningSlackApp, SlackConnection } from './bot/slack-app.ts';
 import { loadWorkspace } from './config/index.ts';
 import { type Result, SlotwrightError } from './errors.ts';
-import { openStore, parseStoreLocation, SqlBookingStore, SqlLedgerStore } from './store/index.ts';
+import {
+  openStore,
+  parseStoreLocation,
+  SqlBookingStore,
+  SqlFeedStateStore,
+  SqlLedgerStore,
+} from './store/index.ts';
 
 /** The workspace folder used when SLOTWRIGHT_WORKSPACE is not set. */
 export const DEFAULT_WORKSPACE = 'fixtures/demo';
@@ -131,6 +137,8 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
     bookingStore,
     rules: new InMemoryRuleStore(),
     tokenKey: options.tokenKey ?? randomBytes(32).toString('hex'),
+    feedStates: new SqlFeedStateStore(handle),
+    clock: options.now,
     ...(pool === undefined ? {} : { pool }),
   });
   return {

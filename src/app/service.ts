@@ -4,6 +4,7 @@
  * not wired into this build (`not_available`).
  */
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
+import { redactUrl } from '../calendar/index.ts';
 import type { Workspace } from '../config/index.ts';
 import { type Issue, type Result, SlotwrightError } from '../errors.ts';
 import { describeSeries, parseSeriesSentence, ruleEffect, type SeriesDraft } from '../rules/index.ts';
@@ -19,7 +20,8 @@ import {
 import type { BookingRecord } from '../store/index.ts';
 import { addDays, type BusyInterval, type Interval, instantToZoned, zonedToInstant } from '../time/index.ts';
 import type { BookingService, BusyOf } from './book.ts';
-import type { BookingStore, ChatUserProfile, DeliveryLog, RuleStore } from './ports.ts';
+import { busyByOwner, type FeedSpec, type FeedsDeps, refreshFeeds } from './feeds.ts';
+import type { BookingStore, ChatUserProfile, DeliveryLog, FeedStateStore, RuleStore } from './ports.ts';
 import { forgetRule, listRules, previewRule, type RuleDeps, saveRule } from './rules.ts';
 import type { SolvePool } from './solve-pool.ts';
 import { solve as solveInProcess } from './solve-worker.ts';
@@ -309,6 +311,14 @@ export interface ServiceOptions {
   readonly pool?: SolvePool;
   /** Makes request ids. @default crypto.randomUUID */
   readonly newId?: () => string;
+  /**
+   * The feed cache (last good busy time per feed, shared by replicas). Feeds missing or stale in it
+   * are refreshed before a request is solved. Without it, file feeds are read on every request.
+   * @default undefined
+   */
+  readonly feedStates?: FeedStateStore;
+  /** Clock of the feed cache. @default Date.now */
+  readonly clock?: () => number;
 }
 
 const DAY_MS = 86_400_000;
@@ -361,12 +371,71 @@ export class DefaultSlotwrightService implements SlotwrightService {
     return first;
   }
 
-  /** Busy time of people and rooms: their file feeds plus what is already held or booked here. */
+  /** The workspace's feeds as the feed use cases name them (`<owner>:<n>`). */
+  #feedSpecs(ownerIds?: readonly string[]): FeedSpec[] {
+    const ws = this.#o.workspace;
+    const owners = [
+      ...ws.people.map((p) => ({ id: p.id, zone: p.zone, email: p.email, feeds: p.feeds })),
+      ...ws.rooms.map((r) => ({ id: r.id, zone: r.zone, email: undefined, feeds: r.feeds })),
+    ].filter((o) => ownerIds === undefined || ownerIds.includes(o.id));
+    return owners.flatMap((o) =>
+      o.feeds.map((f, i) => ({
+        id: `${o.id}:${i}`,
+        ownerId: o.id,
+        source: f.kind === 'url' ? f.url : f.path,
+        zone: o.zone,
+        ...(o.email === undefined ? {} : { ownerEmail: o.email }),
+      })),
+    );
+  }
+
+  #feedDeps(states: FeedStateStore): FeedsDeps {
+    return { states, clock: this.#o.clock ?? Date.now };
+  }
+
+  /** Feed busy time by owner: from the feed cache (refreshing what is missing or stale), else the files. */
+  async #feedBusy(
+    ids: readonly string[],
+    span: Interval,
+  ): Promise<Result<{ busy: ReadonlyMap<string, readonly BusyInterval[]>; warnings: readonly string[] }>> {
+    const states = this.#o.feedStates;
+    if (states === undefined) return fileBusy(this.#o.workspace, ids, span);
+    const deps = this.#feedDeps(states);
+    const specs = this.#feedSpecs(ids);
+    const before = await busyByOwner(specs, span, deps);
+    const stale = new Set(
+      [...before.values()].flatMap((o) => o.feeds.filter((f) => f.stale).map((f) => f.feedId)),
+    );
+    const after =
+      stale.size === 0
+        ? before
+        : await (async () => {
+            await refreshFeeds(
+              specs.filter((f) => stale.has(f.id)),
+              deps,
+            );
+            return busyByOwner(specs, span, deps);
+          })();
+    const warnings: string[] = [];
+    const busy = new Map<string, readonly BusyInterval[]>();
+    for (const [owner, o] of after) {
+      busy.set(owner, o.busy);
+      warnings.push(...o.warnings.map((w) => `${owner}: ${w}`));
+      for (const f of o.feeds)
+        if (f.stale)
+          warnings.push(
+            `${owner}'s feed ${f.feedId} is stale${f.error === undefined ? '' : ` (${f.error})`}; recent changes may be missing`,
+          );
+    }
+    return { ok: true, value: { busy, warnings } };
+  }
+
+  /** Busy time of people and rooms: their feeds plus what is already held or booked here. */
   async #busy(
     ids: readonly string[],
     span: Interval,
   ): Promise<Result<{ busy: Map<string, BusyInterval[]>; warnings: readonly string[] }>> {
-    const files = fileBusy(this.#o.workspace, ids, span);
+    const files = await this.#feedBusy(ids, span);
     if (!files.ok) return files;
     const busy = new Map<string, BusyInterval[]>();
     for (const id of ids) {
@@ -635,30 +704,59 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   async addFeed(_actor: ServicePerson, _url: string, _nowMs: number): Promise<Result<FeedView>> {
-    return notAvailable('Adding feeds from chat');
+    return failure(
+      'not_available',
+      'feeds are listed in the workspace file in this build; ask an admin to add the address under your name',
+    );
   }
 
-  async feeds(actor: ServicePerson, _nowMs: number): Promise<Result<readonly FeedView[]>> {
+  async feeds(actor: ServicePerson, nowMs: number): Promise<Result<readonly FeedView[]>> {
     const p = this.#o.workspace.people.find((x) => x.id === actor.id);
     if (p === undefined) return { ok: true, value: [] };
-    // Without a feed cache the files are read on every request, so they are as fresh as the files.
+    const states = this.#o.feedStates;
+    const label = (f: (typeof p.feeds)[number]) => (f.kind === 'url' ? redactUrl(f.url) : f.ref);
+    if (states === undefined) {
+      // Without a feed cache the files are read on every request, so they are as fresh as the files.
+      return {
+        ok: true,
+        value: p.feeds.map((f) =>
+          f.kind === 'file'
+            ? {
+                label: f.ref,
+                owner: actor.id,
+                freshness: 'fresh',
+                note: 'read from the workspace folder on each request',
+              }
+            : { label: label(f), owner: actor.id, freshness: 'never', note: 'URL feeds need the feed cache' },
+        ),
+      };
+    }
+    const byOwner = await busyByOwner(
+      this.#feedSpecs([actor.id]),
+      { start: nowMs, end: nowMs + DAY_MS },
+      this.#feedDeps(states),
+    );
+    const fresh = byOwner.get(actor.id)?.feeds ?? [];
     return {
       ok: true,
-      value: p.feeds.map((f) =>
-        f.kind === 'file'
-          ? {
-              label: f.ref,
-              owner: actor.id,
-              freshness: 'fresh',
-              note: 'read from the workspace folder on each request',
-            }
-          : {
-              label: f.ref,
-              owner: actor.id,
-              freshness: 'never',
-              note: 'URL feeds are not fetched in this build',
-            },
-      ),
+      value: p.feeds.map((f, i): FeedView => {
+        const st = fresh.find((x) => x.feedId === `${actor.id}:${i}`);
+        const freshness =
+          st === undefined || st.ageMs === undefined
+            ? 'never'
+            : st.error !== undefined
+              ? 'failed'
+              : st.stale
+                ? 'stale'
+                : 'fresh';
+        return {
+          label: label(f),
+          owner: actor.id,
+          freshness,
+          ...(st?.ageMs === undefined ? {} : { fetchedAt: nowMs - st.ageMs }),
+          ...(st?.error === undefined ? {} : { note: st.error }),
+        };
+      }),
     };
   }
 
