@@ -84,8 +84,11 @@ describe('terminal console driven by piped input', () => {
     expect(lines).toContain('In the way:');
     expect(lines).toContain('What limited your last request (8 h with Ines, Teo):');
     const why = lines.slice(at('What limited your last request (8 h with Ines, Teo):') + 1);
-    // Teo's working day (09:00-17:00 Halifax) is itself shorter than 8 hours of shared time with Lisbon.
-    expect(why.slice(0, 3)).toContain("  - Teo Brannigan: teo's working hours (09:00-17:00 America/Halifax)");
+    // Blockers are named plainly, each with the person and what of theirs is in the way.
+    expect(why.slice(0, 2)).toEqual([
+      "  - Ines Carvalhal: ines's calendar",
+      "  - Ines Carvalhal: ines's working hours (09:00-17:00 Europe/Lisbon)",
+    ]);
     expect(lines.slice(-3)).toEqual([
       'I could not work on that request. Nothing was booked.',
       '  - @nobody is not a person or group of this workspace',
