@@ -111,15 +111,35 @@ export async function openStore(
 
 /** Brings the schema up to date; safe to run from several processes at once. */
 export async function migrateStore(handle: StoreHandle): Promise<void> {
-  const migrator = new Migrator({
-    db: handle.db as unknown as Kysely<unknown>,
-    provider: new StoreMigrationProvider(handle.dialect),
-  });
-  const { error, results } = await migrator.migrateToLatest();
-  if (error !== undefined) {
-    const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
-    throw new SlotwrightError('store_unavailable', `store migration ${failed} failed`, { cause: error });
+  const run = async (db: Kysely<StoreSchema>, schema?: string) => {
+    const migrator = new Migrator({
+      db: db as unknown as Kysely<unknown>,
+      provider: new StoreMigrationProvider(handle.dialect),
+      // Without a schema Kysely looks for its bookkeeping tables in every schema of the database,
+      // so a second store in the same database (another schema) would skip creating its own.
+      ...(schema === undefined ? {} : { migrationTableSchema: schema }),
+    });
+    const { error, results } = await migrator.migrateToLatest();
+    if (error !== undefined) {
+      const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
+      throw new SlotwrightError('store_unavailable', `store migration ${failed} failed`, { cause: error });
+    }
+  };
+  // PostgreSQL: Kysely takes an advisory lock. SQLite: its lock is only in-process, so take the
+  // file's write lock for the whole run; a second process then waits and finds nothing left to do.
+  if (handle.dialect === 'postgres') {
+    const current = await sql<{ schema: string | null }>`select current_schema() as schema`.execute(
+      handle.db,
+    );
+    const schema = current.rows[0]?.schema;
+    if (schema === null || schema === undefined)
+      throw new SlotwrightError(
+        'store_unavailable',
+        'PostgreSQL has no current schema to create tables in; check the search_path of the database user',
+      );
+    return run(handle.db, schema);
   }
+  await writeTransaction(handle, run);
 }
 
 /**

@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { DEFAULT_SQLITE_FILE, openStoreFromEnv, parseStoreLocation } from '../../src/store/index.ts';
+import { migrateTogether } from './migrate-together.ts';
 
 describe('parseStoreLocation', () => {
   it.each([
@@ -80,4 +81,16 @@ describe('openStoreFromEnv', () => {
       rmSync(cwd, { recursive: true, force: true });
     }
   });
+});
+
+describe('migrating from several processes at once', () => {
+  it('four processes opening one new SQLite file all succeed', async () => {
+    const cwd = mkdtempSync(join(tmpdir(), 'sw-open-'));
+    try {
+      const out = await migrateTogether(4, { dialect: 'sqlite', file: join(cwd, 'shared.sqlite') });
+      expect(out).toEqual(['ok', 'ok', 'ok', 'ok']);
+    } finally {
+      rmSync(cwd, { recursive: true, force: true });
+    }
+  }, 120_000);
 });

@@ -1,7 +1,9 @@
+import { sql } from 'kysely';
 import { describe, expect, it } from 'vitest';
 import { openStore, SqlBookingStore } from '../../src/store/index.ts';
 import { storeContract } from './contract.ts';
 import { postgresFactory } from './factories.ts';
+import { migrateTogether } from './migrate-together.ts';
 
 const url = process.env.SLOTWRIGHT_TEST_DATABASE_URL;
 
@@ -107,4 +109,23 @@ describe.skipIf(url === undefined || url === '')('PostgreSQL race between check 
       await sut.cleanup();
     }
   });
+});
+
+describe.skipIf(url === undefined || url === '')('PostgreSQL migrations from several processes', () => {
+  it('four replicas migrating one new schema at once all succeed', async () => {
+    const sut = await postgresFactory(url!)();
+    try {
+      // The factory migrated its own schema; point the children at a second, empty one.
+      const schema = `${sut.searchPath![0]}_m`;
+      await sql.raw(`create schema ${schema}`).execute(sut.handle.db);
+      try {
+        const out = await migrateTogether(4, sut.location, [schema, 'public']);
+        expect(out).toEqual(['ok', 'ok', 'ok', 'ok']);
+      } finally {
+        await sql.raw(`drop schema ${schema} cascade`).execute(sut.handle.db);
+      }
+    } finally {
+      await sut.cleanup();
+    }
+  }, 120_000);
 });
