@@ -141,6 +141,22 @@ export async function run(args: readonly string[]): Promise<number> {
     }
     log(`${''.padEnd(30)} (model built in ${buildMs.toFixed(0)} ms, not included above)`);
   }
+  // The two targets, from the rows above.
+  const q = rows.find((r) => r.case === 'queens-1000' && r.variant === 'FC+MRV');
+  if (q !== undefined)
+    log(`target FC+MRV queens-1000 under 2000 ms: ${q.solved ? `${q.ms} ms` : 'not solved'}`);
+  const random = rows.filter((r) => r.case.startsWith('modelB'));
+  for (const name of new Set(random.map((r) => r.case))) {
+    const plain = random.find((r) => r.case === name && r.variant === 'plain BT')!;
+    const best = random
+      .filter((r) => r.case === name && (r.variant === 'FC+MRV' || r.variant === 'MAC') && r.solved)
+      .sort((a, b) => a.nodes - b.nodes)[0];
+    if (best === undefined) continue;
+    const factor = plain.nodes / Math.max(1, best.nodes);
+    log(
+      `target ${name}: plain BT / ${best.variant} nodes = ${plain.solved ? '' : '>'}${factor.toFixed(0)}x (at least 10x wanted)`,
+    );
+  }
   if (opts.json) log(JSON.stringify(rows));
   return 0;
 }

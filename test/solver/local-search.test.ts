@@ -79,6 +79,28 @@ describe('improve', () => {
     expect(deltaCalls).toBeGreaterThan(0);
   });
 
+  it('re-evaluates the objective in full when no delta is given', () => {
+    const b = new ModelBuilder();
+    const vars = [0, 1, 2].map((i) => b.addVariable(`t${i}`, 5));
+    b.addAllDifferent(vars, { name: 'one per slot' });
+    let calls = 0;
+    const objective = (a: readonly number[]): number => {
+      calls++;
+      return Math.abs(a[0]! - 4) + a[1]! + a[2]!;
+    };
+    const r = improve(b.build(), [0, 0, 0], {
+      method: 'min-conflicts',
+      objective,
+      budget: { nodes: 2_000 },
+      seed: 3,
+    });
+    expect(r.violations).toBe(0);
+    // t0 = 4 and {t1, t2} = {0, 1} is the optimum, cost 1.
+    expect(r.cost).toBe(1);
+    expect(r.assignment[0]).toBe(4);
+    expect(calls).toBeGreaterThan(10);
+  });
+
   it('is deterministic for a seed and reports progress', () => {
     const progress: number[] = [];
     const run = () =>
