@@ -15,7 +15,7 @@ export interface ZonedReading {
 /** True when `zone` is an IANA time-zone name the runtime knows. */
 export function isValidZone(zone: string): boolean {
   try {
-    Temporal.Now.instant().toZonedDateTimeISO(zone);
+    Temporal.Instant.fromEpochMilliseconds(0).toZonedDateTimeISO(zone);
     return true;
   } catch {
     return false;
@@ -127,7 +127,7 @@ export function addLocalDays(local: LocalDateTime, days: number): LocalDateTime 
 export function canonicalZone(zone: string): string | undefined {
   if (zone === '' || zone.length > 64) return undefined;
   try {
-    return Temporal.Now.instant().toZonedDateTimeISO(zone).timeZoneId;
+    return Temporal.Instant.fromEpochMilliseconds(0).toZonedDateTimeISO(zone).timeZoneId;
   } catch {
     return undefined;
   }
