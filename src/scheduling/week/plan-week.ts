@@ -43,7 +43,7 @@ export interface PlanWeekOptions {
   readonly timeMs?: number;
   /** Clock in ms (inner layers never read the clock themselves). */
   readonly clock?: () => number;
-  /** Local-search moves for the improvement phase (in rounds of `roundMoves`). @default 20000, or no limit when `timeMs` is set */
+  /** Local-search moves for the improvement phase, in rounds (the last one may run up to 255 past it). @default 20000, or no limit when `timeMs` is set */
   readonly moves?: number;
   /** Moves per improvement round; each round starts from the best plan so far. @default 30000 */
   readonly roundMoves?: number;
@@ -261,10 +261,12 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     // Rounds alternate: min-conflicts moves one session to its best value (steepest descent, which
     // finds the few improving moves of a tight week), annealing walks wider with cheap random moves.
     const descent = rounds % 2 === 0;
-    const roundMoves = Math.min(
-      descent ? Math.max(20, Math.round(o.roundMoves / 30)) : o.roundMoves,
-      o.moves - moves,
-    );
+    // A round always gets its full size (the annealing schedule depends on it); when fewer moves are
+    // left, it is cut short by a signal instead, so a short run is a prefix of a longer one with the
+    // same seed and more moves never give a worse plan.
+    const roundMoves = descent ? Math.max(20, Math.round(o.roundMoves / 30)) : o.roundMoves;
+    const left = o.moves - moves;
+    const stop = new AbortController();
     const b = descent ? descentBridge : bridge;
     scorer.load(values);
     b.reset(values);
@@ -273,8 +275,20 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
       objective: b.objective,
       delta: b.delta,
       moves: descent ? ['change'] : ['change', 'swap'],
-      budget: { nodes: roundMoves, ...(r === undefined || clock === undefined ? {} : { timeMs: r, clock }) },
+      budget: {
+        nodes: roundMoves,
+        ...(left < roundMoves ? { signal: stop.signal } : {}),
+        ...(r === undefined || clock === undefined ? {} : { timeMs: r, clock }),
+      },
       seed: o.seed + rounds * 7919,
+      // progress comes every 256 moves: the cut lands on the first report at or past the moves left
+      ...(left < roundMoves
+        ? {
+            onProgress: (p: { moves: number }) => {
+              if (p.moves >= left) stop.abort();
+            },
+          }
+        : {}),
     });
     moves += res.moves;
     rounds++;

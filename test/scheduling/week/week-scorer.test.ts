@@ -154,6 +154,23 @@ describe('WeekScorer, hand-computed costs per preference kind', () => {
     expect(score(req, [v(0), v(0)]).clashes).toBe(2);
     expect(score(req, [v(0), v(2)]).clashes).toBe(0);
   });
+
+  it('counts room double-bookings per room-cell and extra session, never for "no room"', () => {
+    const req = request({
+      series: [
+        { id: 'x', attendees: [0], sessions: 1, minDays: 1, length: 2, room: { seats: 1, features: [] } },
+        { id: 'y', attendees: [1], sessions: 1, minDays: 1, length: 1, room: { seats: 1, features: [] } },
+        { id: 'z', attendees: [1], sessions: 1, minDays: 1, length: 1 },
+      ],
+    });
+    const scorer = new WeekScorer(new WeekSpace(req));
+    scorer.load([v(0, 0), v(1, 0), v(5)]);
+    expect(scorer.roomClashes()).toBe(1);
+    scorer.load([v(0, 0), v(1, 1), v(5)]);
+    expect(scorer.roomClashes()).toBe(0);
+    // delta with a room-clash weight sees the clash it would add
+    expect(scorer.delta(1, v(1, 0), 0, 100)).toBe(100);
+  });
 });
 
 describe('WeekScorer.delta', () => {
