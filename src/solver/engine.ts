@@ -102,6 +102,11 @@ export class Engine {
   readonly #costAt: Float64Array;
   readonly #orderBuf: (Int32Array | null)[];
   readonly #keys: Float64Array;
+  // Scratch of the all-different matching, sized to the widest domain on first use.
+  #owner = new Int32Array(0);
+  #seenAt = new Int32Array(0);
+  #visit = 0;
+  readonly #keysCap: number;
   #depth = 0;
   #started = false;
   #done = false;
@@ -182,6 +187,7 @@ export class Engine {
     for (let i = 0; i < n; i++) if (st.bcStart[i + 1]! > st.bcStart[i]!) bcVars.push(i);
     this.#bcVars = settings.useBound ? Int32Array.from(bcVars) : new Int32Array(0);
     const maxCap = st.maxCap;
+    this.#keysCap = maxCap;
     this.#varAt = new Int32Array(n);
     this.#cursor = new Int32Array(n);
     this.#count = new Int32Array(n);
@@ -812,7 +818,7 @@ export class Engine {
           if (y !== trigger && this.#remove(y, a) < 0) return false;
         }
       }
-      if (this.#set.propagation === PROP_ARC) return this.#pigeonhole(c);
+      if (this.#set.propagation === PROP_ARC) return this.#pigeonhole(c) && this.#matchable(c);
       return true;
     }
     if (c.kind === NARY_PRED) {
@@ -860,6 +866,68 @@ export class Engine {
     }
     for (let j = 0; j < k; j++) if (this.#intersect(vars[j]!, sup, supOff[j]!) < 0) return false;
     return true;
+  }
+
+  /**
+   * Whether every member of an all-different can take a distinct value at once (a bipartite matching
+   * of members to values, by augmenting paths). By Hall's theorem this catches every group of k
+   * members confined to fewer than k values, not only the whole scope.
+   */
+  #matchable(c: LocalNary): boolean {
+    const vars = c.vars;
+    const k = vars.length;
+    if (this.#owner.length === 0) {
+      this.#owner = new Int32Array(this.#keysCap).fill(-1);
+      this.#seenAt = new Int32Array(this.#keysCap);
+    }
+    const owner = this.#owner;
+    let ok = true;
+    let matched = 0;
+    for (; matched < k; matched++) {
+      this.#visit++;
+      if (!this.#augment(c, matched)) {
+        ok = false;
+        break;
+      }
+    }
+    // Owners live only for this call: clear the values they point at.
+    const dom = this.#dom;
+    for (let j = 0; j < k; j++) {
+      const v = vars[j]!;
+      const off = this.#off[v]!;
+      for (let w = 0; w < this.#nw[v]!; w++) {
+        let word = dom[off + w]!;
+        while (word !== 0) {
+          owner[(w << 5) + lowestBit(word)] = -1;
+          word &= word - 1;
+        }
+      }
+    }
+    return ok;
+  }
+
+  #augment(c: LocalNary, j: number): boolean {
+    const v = c.vars[j]!;
+    const dom = this.#dom;
+    const off = this.#off[v]!;
+    const owner = this.#owner;
+    const seen = this.#seenAt;
+    const visit = this.#visit;
+    for (let w = 0; w < this.#nw[v]!; w++) {
+      let word = dom[off + w]!;
+      while (word !== 0) {
+        const b = (w << 5) + lowestBit(word);
+        word &= word - 1;
+        if (seen[b] === visit) continue;
+        seen[b] = visit;
+        const o = owner[b]!;
+        if (o < 0 || this.#augment(c, o)) {
+          owner[b] = j;
+          return true;
+        }
+      }
+    }
+    return false;
   }
 
   /** Fails when the open variables of an all-different have fewer values in total than members. */

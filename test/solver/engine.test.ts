@@ -103,6 +103,21 @@ describe('look-ahead strength', () => {
     expect(r.stats.nodes).toBe(0);
   });
 
+  it('all-different with arc propagation finds a Hall set the total count misses', () => {
+    // Three members share two values while a fourth has ten: ten values in all, yet no matching.
+    const b = new ModelBuilder();
+    const vars = [0, 1, 2].map((i) => b.addVariable(`tight${i}`, 10, [0, 1]));
+    vars.push(b.addVariable('loose', 10));
+    b.addAllDifferent(vars, { name: 'Hall' });
+    const model = b.build();
+    const arc = solve(model, { propagation: 'arc' });
+    expect(arc.status).toBe('unsatisfiable');
+    expect(arc.stats.nodes).toBe(0);
+    const fwd = solve(model, { propagation: 'forward' });
+    expect(fwd.status).toBe('unsatisfiable');
+    expect(fwd.stats.nodes).toBeGreaterThan(0);
+  });
+
   it('wide binary predicates beyond the row cache are evaluated and still correct', () => {
     // 10000 x 10000 values exceeds the cached-row limit, so the predicate is evaluated.
     const b = new ModelBuilder();
