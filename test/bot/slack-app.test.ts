@@ -182,6 +182,107 @@ describe('Slack app over HTTP (signed requests, loopback Web API)', () => {
     expect(buttonsIn(view.view.blocks).map((b) => b.text)).toEqual(['New request', 'Cancel']);
   });
 
+  it('confirms a rule from its preview button, once', async () => {
+    await post(slashBody('U0DEMO007', 'rule no meetings before 11:00', stub.responseUrl(8)), FORM);
+    await stub.until(() =>
+      stub.responses.some((x) => x.path === '/respond/8' && String(x.body.text).startsWith('I read this as')),
+    );
+    const preview = stub.responses.filter((x) => x.path === '/respond/8').at(-1)!.body;
+    const save = buttonsIn(preview.blocks).find((b) => b.text === 'Save this rule')!;
+    const click = buttonBody('U0DEMO007', save, {
+      messageTs: '1765000200.0001',
+      responseUrl: stub.responseUrl(9),
+    });
+    await post(click, FORM);
+    await post(click, FORM);
+    await stub.until(() => stub.responses.some((x) => x.path === '/respond/9'));
+    await new Promise((res) => setTimeout(res, 300));
+    expect(
+      stub.responses
+        .filter((x) => x.path === '/respond/9')
+        .map((x) => String(x.body.text).replace(/r[0-9a-f]{6}/, 'ID')),
+    ).toEqual(['Saved rule ID: No meetings before 11am']);
+    const rules = await opened.service.rules(opened.service.person('rui')!);
+    expect(rules.ok && rules.value.map((r) => r.text)).toEqual(['No meetings before 11am']);
+  });
+
+  it('opens the request modal from the home tab and sends the options to a direct message', async () => {
+    const open = new URLSearchParams({
+      payload: JSON.stringify({
+        type: 'block_actions',
+        user: { id: INES, team_id: 'T0TEST001' },
+        api_app_id: 'A0APP0001',
+        token: 't',
+        container: { type: 'view', view_id: 'V0HOME001' },
+        trigger_id: '7.8.9',
+        team: { id: 'T0TEST001' },
+        view: { id: 'V0HOME001', type: 'home' },
+        actions: [
+          { action_id: 'slot_open_request:0', block_id: 'b', type: 'button', value: 'new', action_ts: '1.1' },
+        ],
+      }),
+    }).toString();
+    expect((await post(open, FORM)).status).toBe(200);
+    await stub.until(() => stub.callsOf('views.open').length > 0);
+    const opened0 = stub.callsOf('views.open')[0]!.args as {
+      trigger_id: string;
+      view: { callback_id: string };
+    };
+    expect(opened0.trigger_id).toBe('7.8.9');
+    expect(opened0.view.callback_id).toBe('slot_new_request');
+
+    const submit = (values: Record<string, unknown>) =>
+      new URLSearchParams({
+        payload: JSON.stringify({
+          type: 'view_submission',
+          user: { id: INES, team_id: 'T0TEST001' },
+          api_app_id: 'A0APP0001',
+          token: 't',
+          team: { id: 'T0TEST001' },
+          trigger_id: '9.9.9',
+          view: { id: 'V0MODAL01', type: 'modal', callback_id: 'slot_new_request', state: { values } },
+        }),
+      }).toString();
+    // An end date before the start date goes back into the modal as a field error.
+    const bad = await post(
+      submit({
+        required: { value: { type: 'multi_users_select', selected_users: ['U0DEMO007'] } },
+        length: { value: { type: 'static_select', selected_option: { value: '30' } } },
+        from: { value: { type: 'datepicker', selected_date: '2026-12-09' } },
+        to: { value: { type: 'datepicker', selected_date: '2026-12-08' } },
+      }),
+      FORM,
+    );
+    expect(JSON.parse(bad.text)).toEqual({
+      response_action: 'errors',
+      errors: { to: 'The end date is before the start date.' },
+    });
+    const before = stub.callsOf('chat.postMessage').length;
+    const updatesBefore = stub.callsOf('chat.update').length;
+    const good = await post(
+      submit({
+        required: { value: { type: 'multi_users_select', selected_users: ['U0DEMO007'] } },
+        length: { value: { type: 'static_select', selected_option: { value: '30' } } },
+        from: { value: { type: 'datepicker', selected_date: '2026-12-09' } },
+        to: { value: { type: 'datepicker', selected_date: '2026-12-09' } },
+        seats: { value: { type: 'number_input', value: '2' } },
+        features: { value: { type: 'plain_text_input', value: 'screen' } },
+      }),
+      FORM,
+    );
+    expect(good.status).toBe(200);
+    await stub.until(() => stub.callsOf('chat.update').length > updatesBefore);
+    const dm = stub.callsOf('chat.postMessage').slice(before)[0]!;
+    expect(dm.args).toMatchObject({ channel: INES, text: 'Looking for times…' });
+    const update = stub.callsOf('chat.update').slice(updatesBefore)[0]!;
+    expect(String(update.args.text)).toMatch(/option\(s\) for 30 min with Ines, Rui$/);
+    // Rui's chat rule (no meetings before 11:00 Lisbon = 11:00 UTC) holds, and the only room with a screen is Tejo.
+    const starts = dateTokens(JSON.stringify(update.args.blocks)).filter((_, i) => i % 2 === 0);
+    expect(starts.length).toBeGreaterThan(0);
+    for (const t of starts) expect(t).toBeGreaterThanOrEqual(Date.UTC(2026, 11, 9, 11, 0));
+    expect(JSON.stringify(update.args.blocks)).toContain(' in Tejo');
+  });
+
   it('acknowledges a slash command in well under 3 s while a large week plan is being solved', async () => {
     // Baseline: ack time with the pool idle.
     const idle = await post(slashBody(INES, 'help', stub.responseUrl(5)), FORM);
