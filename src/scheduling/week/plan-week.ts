@@ -47,6 +47,8 @@ export interface PlanWeekOptions {
   readonly moves?: number;
   /** Moves per improvement round; each round starts from the best plan so far. @default 30000 */
   readonly roundMoves?: number;
+  /** With `timeMs`, how long placing (before any improvement) may take at most, in ms, even past `timeMs`. @default 10000 */
+  readonly placeMs?: number;
   /** Node limit of each construction search. @default 200000 */
   readonly searchNodes?: number;
   /** Seed of every randomized step; same seed and move budget, same plan. @default 1 */
@@ -89,12 +91,14 @@ const DEFAULTS = {
   roundMoves: 30_000,
   searchNodes: 200_000,
   seed: 1,
+  placeMs: 10_000,
 } satisfies Partial<PlanWeekOptions>;
 
 /**
  * Places every series of a week jointly: the hard layer by the engine's search (forward checking,
- * MRV, values ordered by their own cost), then the preference cost by rounds of the engine's local
- * search. Series that cannot fit are left out one by one, each with a minimal conflicting set.
+ * MRV, three value orders in turn, min-conflicts repair when they run out), then the preference cost
+ * by rounds of the engine's local search. Series that cannot fit are left out, each with a minimal
+ * conflicting set.
  */
 export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): WeekPlan {
   const o = {
@@ -120,9 +124,12 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   const report = (phase: WeekProgress['phase'], best: number) =>
     o.onProgress?.({ phase, elapsedMs: elapsed(), best, unplaced: unplaced.length });
 
+  // Placing comes first and may run past a short time limit (up to `placeMs`): a plan that leaves
+  // series out only because the clock ran out would be worse than a late one.
+  const placeDeadline = deadline === undefined ? undefined : Math.max(deadline, o.placeMs);
   const timeBudget = (share: number) => {
-    const r = remaining();
-    return r === undefined || clock === undefined ? {} : { timeMs: Math.max(1, r * share), clock };
+    if (placeDeadline === undefined || clock === undefined) return {};
+    return { timeMs: Math.max(1, Math.max(0, placeDeadline - elapsed()) * share), clock };
   };
 
   // 1. series that cannot fit even alone
@@ -240,7 +247,16 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   values.set(placed.values!);
   const feasibleMs = elapsed();
   active.sort((a, b) => a - b);
-  const model = buildImproveModel(space, active);
+  // the local-search models are built only when there is time to use them
+  let annealModel: WeekModel | null = null;
+  let descentModel: WeekModel | null = null;
+  const sessionsOf = Int32Array.from(
+    active.flatMap((s) => {
+      const out: number[] = [];
+      for (let i = space.seriesFirst[s]!; i < space.seriesFirst[s + 1]!; i++) out.push(i);
+      return out;
+    }),
+  );
   scorer.load(values);
   const initialCost = scorer.total();
   let best = initialCost;
@@ -251,11 +267,10 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   let rounds = 0;
   // descent rounds move in a model without the room rules and pay for room clashes in the cost:
   // each candidate value then checks a handful of attendee constraints instead of every room pair
-  const descentModel = buildImproveModel(space, active, { rooms: false });
-  const bridge = new ScorerBridge(scorer, model.sessions, n, 0);
-  const descentBridge = new ScorerBridge(scorer, descentModel.sessions, n, CLASH_WEIGHT);
-  let assignment = Array.from(model.sessions, (session) => values[session]!);
-  while (model.model.variableCount > 0 && moves < o.moves) {
+  const bridge = new ScorerBridge(scorer, sessionsOf, n, 0);
+  const descentBridge = new ScorerBridge(scorer, sessionsOf, n, CLASH_WEIGHT);
+  let assignment = Array.from(sessionsOf, (session) => values[session]!);
+  while (sessionsOf.length > 0 && moves < o.moves) {
     const r = remaining();
     if (r !== undefined && r <= 0) break;
     // Rounds alternate: min-conflicts moves one session to its best value (steepest descent, which
@@ -270,7 +285,9 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     const b = descent ? descentBridge : bridge;
     scorer.load(values);
     b.reset(values);
-    const res = improve(descent ? descentModel.model : model.model, assignment, {
+    if (descent) descentModel ??= buildImproveModel(space, active, { rooms: false });
+    else annealModel ??= buildImproveModel(space, active);
+    const res = improve((descent ? descentModel : annealModel)!.model, assignment, {
       method: descent ? 'min-conflicts' : 'annealing',
       objective: b.objective,
       delta: b.delta,
@@ -294,7 +311,7 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     rounds++;
     if (res.violations === 0 && res.moves > 0) {
       const candidate = new Int32Array(values);
-      model.sessions.forEach((session, v) => {
+      sessionsOf.forEach((session, v) => {
         candidate[session] = res.assignment[v]!;
       });
       scorer.load(candidate);
@@ -334,7 +351,7 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     violations: countViolations(space, values),
     complete: unplaced.length === 0,
     stats: {
-      variables: model.model.variableCount,
+      variables: sessionsOf.length,
       searchNodes,
       moves,
       rounds,
