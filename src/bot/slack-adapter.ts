@@ -49,7 +49,15 @@ export class ChatPeople {
     if (direct.ok) return direct;
     let hit = this.#cache.get(userId);
     if (hit === undefined || nowMs - hit.at > PROFILE_TTL_MS) {
-      hit = { at: nowMs, profile: profileOf(userId, await client.users.info({ user: userId })) };
+      let answer: unknown;
+      try {
+        answer = await client.users.info({ user: userId });
+      } catch (error) {
+        // A user the platform does not know is an unknown person, not a failure of ours.
+        if ((error as { data?: { error?: unknown } }).data?.error !== 'user_not_found') throw error;
+        answer = undefined;
+      }
+      hit = { at: nowMs, profile: profileOf(userId, answer) };
       this.#cache.set(userId, hit);
     }
     return service.identify(hit.profile);

@@ -121,6 +121,24 @@ describe('service over a workspace and a SQLite store', () => {
     expect(again.ok && again.value.options.every((o) => o.start >= top.end || o.end <= top.start)).toBe(true);
   });
 
+  it('holds an option, then books that hold into the same booking', async () => {
+    const s = opened.service;
+    const lena = s.person('lena')!;
+    const r = await s.meet(
+      lena,
+      { lengthMinutes: 45, required: [{ kind: 'name', id: 'rui' }], optional: [], features: [] },
+      NOW,
+    );
+    if (!r.ok) throw new Error('expected options');
+    const held = await s.hold(lena, r.value.options[0]!.token, NOW);
+    if (!held.ok) throw new Error(held.issues[0]!.message);
+    expect(held.value.state).toBe('held');
+    // Holds last 10 minutes by default (booking use case default).
+    expect(held.value.expiresAt).toBe(NOW + 10 * 60_000);
+    const booked = await s.book(lena, `hold:${held.value.id}`, NOW);
+    expect(booked).toMatchObject({ ok: true, value: { id: held.value.id, state: 'booked' } });
+  });
+
   it('refuses a forged or altered option token', async () => {
     const s = opened.service;
     const ines = s.person('ines')!;

@@ -157,6 +157,14 @@ describe('Slack app over HTTP (signed requests, loopback Web API)', () => {
     expect(String(stub.responses.find((x) => x.path === '/respond/4')!.body.text)).toContain(
       'I do not know chat user U0STRANGE (someone@elsewhere.example)',
     );
+    // A user the platform itself does not know (users.info: user_not_found) gets the same plain answer.
+    await post(slashBody('U0GHOST01', 'rules', stub.responseUrl(10)), FORM);
+    await stub.until(() =>
+      stub.responses.some((x) => x.path === '/respond/10' && x.body.text !== 'Working on it…'),
+    );
+    expect(String(stub.responses.filter((x) => x.path === '/respond/10').at(-1)!.body.text)).toContain(
+      'I do not know chat user U0GHOST01 in this workspace',
+    );
   });
 
   it('publishes the home tab with the upcoming booking and a cancel button', async () => {
