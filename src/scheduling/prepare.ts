@@ -41,9 +41,9 @@ export interface AttendeeView {
   readonly tentative: Uint32Array | null;
   /** Starts against each preference. */
   readonly prefs: readonly { readonly text: string; readonly clash: Uint32Array }[];
-  /** Ticks inside working hours. */
+  /** Ticks inside working hours, on the grid padded by `padTicks` each side (tick t of the grid is t + pad). */
   readonly workTicks: Uint32Array;
-  /** Ticks inside working hours and free of busy time and holidays. */
+  /** Ticks inside working hours and free of busy time and holidays, on the same padded grid. */
   readonly freeTicks: Uint32Array;
 }
 
@@ -128,6 +128,11 @@ function dedupe(list: SchedulingPerson[]): SchedulingPerson[] {
     seen.add(p.id);
     return true;
   });
+}
+
+/** Ticks of padding (one day) around the grid for the stretches the score reads. */
+export function padTicks(grid: Grid): number {
+  return Math.ceil(86_400_000 / grid.tickMs);
 }
 
 /** Starts whose meeting [s, s + length) touches none of `blocked` (each widened by `pad` ms). */
@@ -301,14 +306,28 @@ function attendeeView(
     tentative = fullBits(starts);
     for (let i = 0; i < tentative.length; i++) tentative[i]! &= ~ok[i]!;
   }
-  const workTicks = emptyBits(grid.ticks);
-  for (const i of work) {
-    const r = ticksCovered(grid, i);
+  // Stretches for the score are read on a grid padded by a day each side, so a window edge is not
+  // mistaken for the start or end of someone's day.
+  const pad = padTicks(grid);
+  const wide: Grid = {
+    origin: grid.origin - pad * grid.tickMs,
+    tickMs: grid.tickMs,
+    ticks: grid.ticks + 2 * pad,
+  };
+  const wideWindow = { start: wide.origin, end: wide.origin + wide.ticks * wide.tickMs };
+  const wideClock = zoneClock(person.zone, wideWindow);
+  const workTicks = emptyBits(wide.ticks);
+  for (const i of workingIntervals(person.workingHours, person.zone, wideWindow, wideClock)) {
+    const r = ticksCovered(wide, i);
     if (r.end > r.first) setRange(workTicks, r.first, r.end);
   }
+  const wideHolidays =
+    person.holidayRegion === undefined
+      ? []
+      : publicHolidays(person.holidayRegion, person.zone, wideWindow, wideClock);
   const freeTicks = workTicks.slice();
-  for (const b of [...person.busy, ...holidays.map((h) => h.interval)]) {
-    const r = ticksTouched(grid, b);
+  for (const b of [...person.busy, ...wideHolidays.map((h) => h.interval)]) {
+    const r = ticksTouched(wide, b);
     if (r.end > r.first) clearRange(freeTicks, r.first, r.end);
   }
   return {

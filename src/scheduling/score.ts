@@ -1,6 +1,6 @@
 import type { ZoneClock } from '../time/working-hours.ts';
 import { hasBit, runEndAt, runStartAt } from './bits.ts';
-import type { AttendeeView, Prepared } from './prepare.ts';
+import { type AttendeeView, type Prepared, padTicks } from './prepare.ts';
 import type { ScorePart } from './types.ts';
 
 // The fit score of an option is 100 plus the points of its parts; every part is zero or negative, so
@@ -60,7 +60,9 @@ export function startParts(p: Prepared, s: number, words: boolean): ScorePart[] 
   const parts: ScorePart[] = [];
   const tickMin = p.grid.tickMs / 60_000;
   const startAt = p.grid.origin + s * p.grid.tickMs;
-  const e = s + p.lengthTicks; // one past the last tick
+  // on the padded grid of workTicks and freeTicks
+  const sx = s + padTicks(p.grid);
+  const ex = sx + p.lengthTicks; // one past the last tick
   const edgeTicks = EDGE_MINUTES / tickMin;
   const who = present(p, s);
 
@@ -76,22 +78,22 @@ export function startParts(p: Prepared, s: number, words: boolean): ScorePart[] 
   let splits = 0;
   const splitWho: string[] = [];
   for (const a of who) {
-    if (hasBit(a.workTicks, s) && runEndAt(a.workTicks, s) >= e) {
-      const ws = runStartAt(a.workTicks, s);
-      const we = runEndAt(a.workTicks, s);
-      const early = Math.max(0, Math.min(e, ws + edgeTicks) - s);
-      const late = Math.max(0, e - Math.max(s, we - edgeTicks));
+    if (hasBit(a.workTicks, sx) && runEndAt(a.workTicks, sx) >= ex) {
+      const ws = runStartAt(a.workTicks, sx);
+      const we = runEndAt(a.workTicks, sx);
+      const early = Math.max(0, Math.min(ex, ws + edgeTicks) - sx);
+      const late = Math.max(0, ex - Math.max(sx, we - edgeTicks));
       const minutes = (early + late) * tickMin;
       if (minutes > 0) {
         edge += minutes * EDGE_POINTS_PER_MINUTE;
         if (words) edgeWho.push(`${a.person.id} (${hhmm(startAt, a.clock)} ${a.person.zone})`);
       }
     }
-    if (hasBit(a.freeTicks, s) && runEndAt(a.freeTicks, s) >= e) {
-      const fs = runStartAt(a.freeTicks, s);
-      const fe = runEndAt(a.freeTicks, s);
-      const before = (s - fs) * tickMin;
-      const after = (fe - e) * tickMin;
+    if (hasBit(a.freeTicks, sx) && runEndAt(a.freeTicks, sx) >= ex) {
+      const fs = runStartAt(a.freeTicks, sx);
+      const fe = runEndAt(a.freeTicks, sx);
+      const before = (sx - fs) * tickMin;
+      const after = (fe - ex) * tickMin;
       let short = 0;
       if (before > 0 && before < SHORT_GAP_MINUTES) short++;
       if (after > 0 && after < SHORT_GAP_MINUTES) short++;
