@@ -17,6 +17,9 @@ import {
 import { Prng } from './prng.ts';
 import type { SolveStats, ValueScorer } from './types.ts';
 
+// All-different scopes wider than this skip the matching check (its recursion is one frame per member).
+const MATCHING_LIMIT = 2000;
+
 // Open variables with more values than this are left out of the binary part of the cost bound.
 const BOUND_SCAN_LIMIT = 32;
 
@@ -818,7 +821,10 @@ export class Engine {
           if (y !== trigger && this.#remove(y, a) < 0) return false;
         }
       }
-      if (this.#set.propagation === PROP_ARC) return this.#pigeonhole(c) && this.#matchable(c);
+      if (this.#set.propagation === PROP_ARC) {
+        // The matching recurses once per member; very wide scopes keep to the count check.
+        return this.#pigeonhole(c) && (c.vars.length > MATCHING_LIMIT || this.#matchable(c));
+      }
       return true;
     }
     if (c.kind === NARY_PRED) {

@@ -512,6 +512,10 @@ export class ModelBuilder {
   readonly #unaryCost: (Float64Array | null)[] = [];
   readonly #binaryCosts: BinaryCost[] = [];
   #built = false;
+  #lastMeta: ConstraintMeta | null = null;
+  #lastName = '';
+  #lastGroup: string | undefined = undefined;
+  #lastIndex = 0;
 
   /** Adds a variable with values 0..size-1 (restricted to `initial` when given); returns its index. */
   addVariable(name: string, size: number, initial?: Iterable<number>): number {
@@ -679,15 +683,26 @@ export class ModelBuilder {
   }
 
   #constraint(kind: number, ref: number, meta: ConstraintMeta): number {
-    if (typeof meta?.name !== 'string' || meta.name === '') {
-      throw invalid('every constraint needs meta.name (a non-empty string)');
-    }
-    const group = meta.group ?? meta.name;
-    let g = this.#groupIndex.get(group);
-    if (g === undefined) {
-      g = this.#groups.length;
-      this.#groups.push(group);
-      this.#groupIndex.set(group, g);
+    let g: number;
+    // Large models pass one meta object for many constraints: remember the last one's group.
+    if (meta === this.#lastMeta && meta.name === this.#lastName && meta.group === this.#lastGroup) {
+      g = this.#lastIndex;
+    } else {
+      if (typeof meta?.name !== 'string' || meta.name === '') {
+        throw invalid('every constraint needs meta.name (a non-empty string)');
+      }
+      const group = meta.group ?? meta.name;
+      let found = this.#groupIndex.get(group);
+      if (found === undefined) {
+        found = this.#groups.length;
+        this.#groups.push(group);
+        this.#groupIndex.set(group, found);
+      }
+      g = found;
+      this.#lastMeta = meta;
+      this.#lastName = meta.name;
+      this.#lastGroup = meta.group;
+      this.#lastIndex = g;
     }
     const id = this.#consKind.length;
     this.#consKind.push(kind);
