@@ -146,6 +146,27 @@ describe('Slack app over HTTP (signed requests, loopback Web API)', () => {
     expect(String(update.args.text)).toMatch(/option\(s\) for 45 min with Ines, Rui/);
   });
 
+  it('answers a direct message in that conversation and ignores bot and edited messages', async () => {
+    const before = stub.callsOf('chat.postMessage').length;
+    const dm = (id: string, extra: Record<string, unknown>) =>
+      eventBody(id, {
+        type: 'message',
+        channel: 'D0INES001',
+        channel_type: 'im',
+        ts: '1765000300.0001',
+        event_ts: '1765000300.0001',
+        ...extra,
+      });
+    await post(dm('Ev0DMBOT001', { bot_id: 'B0OTHER01', text: 'rules' }), JSON_TYPE);
+    await post(dm('Ev0DMEDIT01', { subtype: 'message_changed', message: { text: 'rules' } }), JSON_TYPE);
+    await post(dm('Ev0DM000001', { user: 'U0DEMO007', text: 'rules' }), JSON_TYPE);
+    await stub.until(() => stub.callsOf('chat.postMessage').length > before);
+    await new Promise((res) => setTimeout(res, 300));
+    const posts = stub.callsOf('chat.postMessage').slice(before);
+    expect(posts.map((p) => p.args.channel)).toEqual(['D0INES001']);
+    expect(String(posts[0]!.args.text)).toMatch(/^You have 1 rule\(s\)\.$|^You have no rules yet/);
+  });
+
   it('maps a chat user without a chat id by email, and tells an unknown user clearly', async () => {
     await post(slashBody('U0LENA001', 'rules', stub.responseUrl(3)), FORM);
     await stub.until(() =>
