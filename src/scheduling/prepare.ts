@@ -315,7 +315,7 @@ function attendeeView(
     ticks: grid.ticks + 2 * pad,
   };
   const wideWindow = { start: wide.origin, end: wide.origin + wide.ticks * wide.tickMs };
-  const wideClock = zoneClock(person.zone, wideWindow);
+  const wideClock = clocks(person.zone); // a zone clock holds two days past its span
   const workTicks = emptyBits(wide.ticks);
   for (const i of workingIntervals(person.workingHours, person.zone, wideWindow, wideClock)) {
     const r = ticksCovered(wide, i);
