@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Conversation } from '../../src/bot/conversation.ts';
-import { ACTION, type ReplyAction } from '../../src/bot/reply.ts';
+import { ACTION, type Reply, type ReplyAction } from '../../src/bot/reply.ts';
 import { type OpenedService, openService } from '../../src/main.ts';
 import { NOW, writeTestWorkspace } from './support.ts';
 
