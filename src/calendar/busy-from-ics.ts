@@ -71,6 +71,8 @@ const DAY_MS = 86_400_000;
 // Local times differ from UTC by at most about 14 hours; two days of slack keeps every candidate.
 const SLACK_MS = 2 * DAY_MS;
 
+const UTC_ZONE = { kind: 'utc' } as const;
+
 type ZoneRef =
   | { readonly kind: 'utc' }
   | { readonly kind: 'iana'; readonly zone: string }
@@ -306,8 +308,14 @@ class FeedReader {
   }
 
   /** Adds one instance starting at a local time in a zone. */
-  addInstance(local: LocalDateTime, zone: ZoneRef, length: Length, kind: BusyKind): void {
-    const start = this.toInstant(local, zone);
+  addInstance(
+    local: LocalDateTime,
+    zone: ZoneRef,
+    length: Length,
+    kind: BusyKind,
+    knownStart?: number,
+  ): void {
+    const start = knownStart ?? this.toInstant(local, zone);
     const end =
       length.days === 0
         ? start + length.ms
@@ -396,8 +404,14 @@ class FeedReader {
     try {
       if (seriesBudget <= 0 || performance.now() > deadline)
         throw new ExpansionBudgetExceeded('expansion budget exceeded');
-      const event = new ICAL.Event(comp);
-      const it = event.iterator();
+      // One RRULE and no RDATE, the usual case, needs no merging of instance sources, so the rule's
+      // own iterator is used (ical.js's RecurExpansion clones every instance; EXDATE is applied here
+      // either way).
+      const rrules = comp.getAllProperties('rrule');
+      const it: { next(): IcalTime | null | undefined } =
+        rrules.length === 1 && !comp.hasProperty('rdate')
+          ? (rrules[0]!.getFirstValue() as IcalRecur).iterator(start)
+          : new ICAL.Event(comp).iterator();
       for (let occ = it.next(); occ; occ = it.next()) {
         if (++n > this.#maxInstances) {
           this.warnings.push(
@@ -410,14 +424,10 @@ class FeedReader {
         if (pseudo > hi) break;
         if (pseudo < lo) continue;
         const occZone = occ.isDate || tzidOf(occ) === undefined ? zone : this.zoneOf(occ, tzidOf(start));
-        const at = this.toInstant(local, occ.zone === ICAL.Timezone.utcTimezone ? { kind: 'utc' } : occZone);
+        const instZone: ZoneRef = occ.zone === ICAL.Timezone.utcTimezone ? UTC_ZONE : occZone;
+        const at = this.toInstant(local, instZone);
         if (excluded.has(at)) continue;
-        this.addInstance(
-          local,
-          occ.zone === ICAL.Timezone.utcTimezone ? { kind: 'utc' } : occZone,
-          length,
-          kind,
-        );
+        this.addInstance(local, instZone, length, kind, at);
       }
     } catch (error) {
       if (error instanceof ExpansionBudgetExceeded)
@@ -549,24 +559,30 @@ function jcalPseudo(value: unknown): number | undefined {
 function clearlyOutside(jcal: Jcal, window: Interval): boolean {
   let start: number | undefined;
   let end: number | undefined;
-  let durationMs: number | undefined;
+  let duration: string | undefined;
   for (const prop of jcal[1] as unknown[][]) {
     const name = prop[0];
     if (name === 'rrule' || name === 'rdate' || name === 'recurrence-id') return false;
     if (name === 'dtstart') start = jcalPseudo(prop[3]);
     else if (name === 'dtend') end = jcalPseudo(prop[3]);
-    else if (name === 'duration' && typeof prop[3] === 'string') {
+    else if (name === 'duration') duration = typeof prop[3] === 'string' ? prop[3] : '';
+  }
+  if (start === undefined) return false;
+  if (start > window.end + SLACK_MS) return true;
+  if (start + DAY_MS >= window.start - SLACK_MS) return false;
+  if (end === undefined && duration !== undefined) {
+    const simple = /^PT(?:(\d+)H)?(?:(\d+)M)?(?:(\d+)S)?$/.exec(duration);
+    if (simple !== null)
+      end = start + ((+(simple[1] ?? 0) * 60 + +(simple[2] ?? 0)) * 60 + +(simple[3] ?? 0)) * 1000;
+    else {
       try {
-        durationMs = ICAL.Duration.fromString(prop[3]).toSeconds() * 1000;
+        end = start + ICAL.Duration.fromString(duration).toSeconds() * 1000;
       } catch {
         return false;
       }
     }
   }
-  if (start === undefined) return false;
-  if (start > window.end + SLACK_MS) return true;
-  const last = end ?? start + Math.max(durationMs ?? DAY_MS, DAY_MS);
-  return last < window.start - SLACK_MS;
+  return Math.max(end ?? start, start + DAY_MS) < window.start - SLACK_MS;
 }
 
 /**
@@ -591,15 +607,15 @@ export function busyFromIcs(icsText: string, options: BusyOptions): BusyReport {
   for (const child of children) {
     const name = child.jcal[0];
     try {
+      if (name === 'vevent' && clearlyOutside(child.jcal, window)) continue;
       // Detached components: ical.js then looks no TZID up in the whole tree (slow on big feeds)
       // and zones are resolved here, through Temporal.
       const comp = new ICAL.Component(child.jcal);
       if (name === 'vtimezone') {
         const tzid = comp.getFirstPropertyValue('tzid');
         if (typeof tzid === 'string') vtimezones.set(tzid, child.jcal);
-      } else if (name === 'vevent') {
-        if (!clearlyOutside(child.jcal, window)) events.push({ comp, where: child.where });
-      } else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
+      } else if (name === 'vevent') events.push({ comp, where: child.where });
+      else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
     } catch (error) {
       collector.warnings.push(`${child.where} could not be read: ${cleanMessage(error)}; left out`);
       collector.skipped++;
