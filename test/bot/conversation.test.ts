@@ -12,10 +12,8 @@ beforeAll(async () => {
 });
 afterAll(() => opened.close());
 
-const actions = (r: { blocks: readonly { kind: string }[] }): ReplyAction[] =>
-  r.blocks.flatMap((b) =>
-    b.kind === 'actions' ? [...(b as { actions: readonly ReplyAction[] }).actions] : [],
-  );
+const actions = (r: Reply): ReplyAction[] =>
+  r.blocks.flatMap((b) => (b.kind === 'actions' ? [...b.actions] : []));
 
 describe('conversation', () => {
   it('offers relaxations as buttons, and a click asks again with that change', async () => {
