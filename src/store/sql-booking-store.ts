@@ -110,6 +110,8 @@ export class SqlBookingStore {
 
   async #reserveIn(tx: Db, input: ReserveInput): Promise<ReserveOutcome> {
     await releaseExpired(tx, input.now);
+    if (input.state === 'booked' && input.requestId !== undefined)
+      await releaseSiblingHolds(tx, input.requestId, input.idemKey, input.now);
     const existing = await this.#liveByKey(tx, input.idemKey);
     if (existing !== undefined) {
       if (existing.state === 'booked' || input.state === 'held')
@@ -325,4 +327,28 @@ async function releaseExpired(tx: Db, now: number): Promise<number> {
     .execute();
   await tx.updateTable('occupancy').set({ state: 'cancelled' }).where('booking_id', 'in', ids).execute();
   return ids.length;
+}
+
+/** Booking one option of a request lets go of the holds on its other options. */
+async function releaseSiblingHolds(tx: Db, requestId: string, keep: string, now: number): Promise<void> {
+  const held = await tx
+    .selectFrom('booking')
+    .select('id')
+    .where('request_id', '=', requestId)
+    .where('state', '=', 'held')
+    .where('idem_key', '<>', keep)
+    .execute();
+  if (held.length === 0) return;
+  const ids = held.map((r) => r.id);
+  await tx
+    .updateTable('booking')
+    .set({
+      state: 'cancelled',
+      cancel_reason: 'another option booked',
+      hold_expires_ms: null,
+      updated_ms: now,
+    })
+    .where('id', 'in', ids)
+    .execute();
+  await tx.updateTable('occupancy').set({ state: 'cancelled' }).where('booking_id', 'in', ids).execute();
 }

@@ -238,6 +238,44 @@ export function storeContract(name: string, factory: StoreFactory): void {
         expect(booked.ok && booked.booking.holdExpiresAt).toBe(null);
       });
 
+      it('booking one option of a request lets go of the holds on its other options', async () => {
+        const start = base + 50 * H;
+        const now = start - 3 * H;
+        const opt = (o: string, at: number) =>
+          input({
+            idemKey: `req-s/${o}`,
+            newId: `req-s-${o}`,
+            requestId: 'req-s',
+            optionId: o,
+            start: at,
+            end: at + H,
+            now,
+          });
+        const h1 = await store.bookings.reserve({
+          ...opt('o1', start),
+          state: 'held',
+          holdExpiresAt: now + 10 * M,
+        });
+        const h2 = await store.bookings.reserve({
+          ...opt('o2', start + 30 * M),
+          state: 'held',
+          holdExpiresAt: now + 10 * M,
+        });
+        expect(h1.ok).toBe(true);
+        // Same people, overlapping time: the organizer's own first hold is in the way of the second.
+        expect(h2).toEqual({ ok: false, reason: 'conflict', with: ['ines', 'rui'] });
+        const h3 = await store.bookings.reserve({
+          ...opt('o3', start + 2 * H),
+          state: 'held',
+          holdExpiresAt: now + 10 * M,
+        });
+        expect(h3.ok).toBe(true);
+        const booked = await store.bookings.reserve(opt('o2', start + 30 * M));
+        expect(booked.ok && booked.booking.state).toBe('booked');
+        expect((await store.bookings.get('req-s-o1'))?.cancelReason).toBe('another option booked');
+        expect((await store.bookings.get('req-s-o3'))?.state).toBe('cancelled');
+      });
+
       it('an expired hold blocks nobody and the sweeper releases it (clock passed in)', async () => {
         const start = base + 10 * H;
         const now = start - 2 * H;
