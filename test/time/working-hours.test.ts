@@ -122,10 +122,10 @@ describe('zoneClock agrees with Temporal', () => {
     const clock = zoneClock(zone, { start: mid - 2 * 86_400_000, end: mid + 2 * 86_400_000 });
     for (let d = -1; d <= 1; d++) {
       const date = addDays(day, d);
-      const day = Date.parse(`${date}T00:00:00Z`) / 86_400_000;
+      const civilDay = Date.parse(`${date}T00:00:00Z`) / 86_400_000;
       for (let m = 0; m < 1440; m += 15) {
         expect(clock.toInstant(date, m)).toBe(zonedToInstant(date, m, zone));
-        expect(clock.toInstantDay(day, m)).toBe(zonedToInstant(date, m, zone));
+        expect(clock.toInstantDay(civilDay, m)).toBe(zonedToInstant(date, m, zone));
       }
     }
     for (let t = mid - 2 * 86_400_000; t < mid + 2 * 86_400_000; t += 15 * 60_000) {
