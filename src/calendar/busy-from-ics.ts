@@ -62,6 +62,7 @@ let deadline = Number.POSITIVE_INFINITY;
   const proto = ICAL.RecurIterator.prototype as unknown as { check_contracting_rules(): boolean };
   const original = proto.check_contracting_rules;
   proto.check_contracting_rules = function guarded(this: unknown): boolean {
+    if (checksLeft === Number.POSITIVE_INFINITY) return original.call(this);
     if (--checksLeft < 0 || ((checksLeft & 511) === 0 && performance.now() > deadline))
       throw new ExpansionBudgetExceeded('expansion budget exceeded');
     return original.call(this);
