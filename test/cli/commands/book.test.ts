@@ -114,6 +114,22 @@ describe('slotwright book', () => {
     );
     expect(r.code).toBe(0);
     expect(JSON.parse(r.out).booking.id).toBe(first);
+    // Halifax keeps Atlantic Standard Time, UTC-4, in December (IANA tz database, America/Halifax).
+    const zoned = await run(
+      'book',
+      '--workspace',
+      ws,
+      '--with',
+      'ines,rui',
+      '--start',
+      '2026-12-07T10:00[America/Halifax]',
+      '--length',
+      '0h45m',
+      '--room',
+      'tejo',
+      '--json',
+    );
+    expect(JSON.parse(zoned.out).booking.id).toBe(first);
   });
 
   it('refuses the taken room with exit 3, naming it', async () => {
