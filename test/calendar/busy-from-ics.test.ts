@@ -121,6 +121,39 @@ describe('busyFromIcs', () => {
     expect(r.warnings[0]).toMatch(/^VEVENT at line 9 could not be read \(line 12\)/);
   });
 
+  it('bounds expansion of a rule ical.js would loop on, with a warning', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:loop',
+      'DTSTART:20240105T090000Z',
+      'DURATION:PT1M',
+      'RRULE:FREQ=DAILY;INTERVAL=2;BYDAY=FR;BYMONTHDAY=-2,-1;COUNT=5',
+      'END:VEVENT',
+    );
+    const t0 = performance.now();
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'UTC', expansionTimeBudgetMs: 300 });
+    expect(performance.now() - t0).toBeLessThan(5000);
+    expect(r.warnings).toEqual([
+      'VEVENT at line 4: the recurrence rule takes too long to expand; instances after the last one found are left out',
+    ]);
+  });
+
+  it('caps the instances of an endless series that started long ago, with a warning', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:minutely',
+      'DTSTART:20200101T000000Z',
+      'DURATION:PT1M',
+      'RRULE:FREQ=MINUTELY;INTERVAL=7;COUNT=1000000000',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'UTC', maxInstancesPerSeries: 2000 });
+    expect(r.busy).toEqual([]);
+    expect(r.warnings).toEqual([
+      'VEVENT at line 4: stopped expanding the series after 2000 instances; later ones are left out',
+    ]);
+  });
+
   it('rejects text that is not iCalendar', () => {
     expect(() => busyFromIcs('<html>nope</html>', { window: WEEK, zone: 'UTC' })).toThrow(SlotwrightError);
   });
