@@ -227,6 +227,7 @@ export async function startSlackFromEnv(
   });
   return {
     port: running.port,
+    chat: running.chat,
     stop: async () => {
       await running.stop();
       await opened.close();

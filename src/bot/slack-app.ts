@@ -1,12 +1,14 @@
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { App, HTTPReceiver, LogLevel } from '@slack/bolt';
+import type { ChatTransport } from '../app/ports.ts';
 import { normalizeError } from '../errors.ts';
 import type { Conversation } from './conversation.ts';
 import { registerListeners } from './listeners/index.ts';
 import { userMessage } from './messages.ts';
 import { verifySlackRequest } from './signature.ts';
 import { type BotDeps, ChatPeople, type ChatWebApi } from './slack-adapter.ts';
+import { SlackChatTransport } from './slack-chat-transport.ts';
 
 /** How the app reaches the platform: Socket Mode, or HTTP with request signatures. */
 export type SlackConnection =
@@ -37,6 +39,8 @@ export interface SlackAppOptions {
 export interface RunningSlackApp {
   /** The port the HTTP endpoint listens on (HTTP mode only). */
   readonly port: number | undefined;
+  /** Posts as the app outside a request (scheduled jobs such as the weekly plan). */
+  readonly chat: ChatTransport;
   stop(): Promise<void>;
 }
 
@@ -120,9 +124,10 @@ export async function startSlackApp(options: SlackAppOptions): Promise<RunningSl
   // With extendedErrorHandler Bolt passes { error, body, context }; its typings only know the short form.
   app.error(onError as never);
 
+  const chat = new SlackChatTransport(app.client as unknown as ChatWebApi);
   if (receiver === undefined || options.connection.mode !== 'http') {
     await app.start();
-    return { port: undefined, stop: async () => void (await app.stop()) };
+    return { port: undefined, chat, stop: async () => void (await app.stop()) };
   }
   const secret = options.connection.signingSecret;
   const bolt = receiver;
@@ -167,6 +172,7 @@ export async function startSlackApp(options: SlackAppOptions): Promise<RunningSl
   const port = (server.address() as AddressInfo).port;
   return {
     port,
+    chat,
     stop: () =>
       new Promise<void>((resolve) => {
         server.closeAllConnections();

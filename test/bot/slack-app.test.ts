@@ -312,6 +312,23 @@ describe('Slack app over HTTP (signed requests, loopback Web API)', () => {
     expect(JSON.stringify(update.args.blocks)).toContain(' in Tejo');
   });
 
+  it('posts and updates messages outside a request through the chat transport', async () => {
+    const ref = await app.chat.post('C0CHAN001', { text: 'Week plan for the week of 2026-12-14' });
+    expect(ref.channel).toBe('C0CHAN001');
+    await app.chat.update(ref, { text: 'Week plan (updated)' });
+    expect(stub.callsOf('chat.update').at(-1)!.args).toMatchObject({
+      channel: 'C0CHAN001',
+      ts: ref.ts,
+      text: 'Week plan (updated)',
+    });
+    expect(await app.chat.userProfile('U0LENA001')).toEqual({
+      chatId: 'U0LENA001',
+      email: 'Lena@Saltline.example',
+      zone: 'Europe/Lisbon',
+    });
+    expect(await app.chat.userProfile('U0GHOST02')).toBeUndefined();
+  });
+
   it('acknowledges a slash command in well under 3 s while a large week plan is being solved', async () => {
     // Baseline: ack time with the pool idle.
     const idle = await post(slashBody(INES, 'help', stub.responseUrl(5)), FORM);
