@@ -76,6 +76,28 @@ describe('budgets', () => {
     expect(r.stats.nodes).toBeGreaterThanOrEqual(1);
   });
 
+  it('best mode under a node budget returns the best found so far as incomplete', () => {
+    const b = new ModelBuilder();
+    const n = 12;
+    for (let i = 0; i < n; i++) b.addVariable(`row${i}`, n);
+    for (let i = 0; i < n; i++) {
+      for (let j = i + 1; j < n; j++) {
+        b.addNotEqual(i, j, { name: 'columns' });
+        b.addNotEqualOffset(i, j, j - i, { name: 'diagonals' });
+        b.addNotEqualOffset(i, j, i - j, { name: 'diagonals' });
+      }
+      b.addUnaryCost(i, (c) => (c * (i + 1)) % 7);
+    }
+    const model = b.build();
+    const r = solve(model, { mode: { kind: 'best', k: 1 }, budget: { nodes: 400 } });
+    expect(r.status).toBe('incomplete');
+    expect(r.solutions).toHaveLength(1);
+    const full = solve(model, { mode: { kind: 'best', k: 1 } });
+    expect(full.status).toBe('solved');
+    expect(full.costs[0]).toBeLessThanOrEqual(r.costs[0]!);
+    expect(full.stats.nodes).toBeGreaterThan(400);
+  });
+
   it('an aborted signal stops before any node', () => {
     const ac = new AbortController();
     ac.abort();
