@@ -797,7 +797,11 @@ export class DefaultSlotwrightService implements SlotwrightService {
     };
   }
 
-  async week(actor: ServicePerson, weekOf: string | undefined, nowMs: number): Promise<Result<WeekPlanView>> {
+  async week(
+    _actor: ServicePerson,
+    weekOf: string | undefined,
+    nowMs: number,
+  ): Promise<Result<WeekPlanView>> {
     const ws = this.#o.workspace;
     if (ws.series.length === 0)
       return failure('no_series', 'this workspace has no recurring meetings to plan');
@@ -810,7 +814,6 @@ export class DefaultSlotwrightService implements SlotwrightService {
     const context = weekContext(ws, nowMs, window);
     const task = { kind: 'workspace-week' as const, workspace: ws, context, isoWeek, now: nowMs };
     const answer = this.#o.pool === undefined ? solveInProcess(task) : await this.#o.pool.run(task);
-    void actor;
     if (answer.kind !== 'workspace-week')
       return failure('internal', 'the week plan came back in an unknown form');
     const r = answer.outcome;
