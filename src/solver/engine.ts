@@ -107,6 +107,7 @@ export class Engine {
   readonly #keys: Float64Array;
   // Scratch of the all-different matching, sized to the widest domain on first use.
   #owner = new Int32Array(0);
+  #planes = new Uint32Array(0);
   #seenAt = new Int32Array(0);
   #visit = 0;
   readonly #keysCap: number;
@@ -313,13 +314,21 @@ export class Engine {
     const dom = this.#dom;
     const off = this.#off[x]!;
     const nw = this.#nw[x]!;
+    const lcv = order === 'lcv';
+    const planes = lcv ? this.#lcvNotEqual(x) : 0;
+    const counts = this.#planes;
     let k = 0;
     for (let w = 0; w < nw; w++) {
       let word = dom[off + w]!;
       while (word !== 0) {
-        const a = (w << 5) + lowestBit(word);
+        const bit = lowestBit(word);
+        const a = (w << 5) + bit;
         word &= word - 1;
-        keys[k] = order === 'lcv' ? this.#lcvScore(x, a) : order(this.#gvars[x]!, a);
+        if (lcv) {
+          let ne = 0;
+          for (let p = 0; p < planes; p++) ne += ((counts[p * nw + w]! >>> bit) & 1) << p;
+          keys[k] = ne + this.#lcvScore(x, a);
+        } else keys[k] = order(this.#gvars[x]!, a);
         buf[k] = a;
         k++;
       }
@@ -365,11 +374,55 @@ export class Engine {
     return best;
   }
 
+  /**
+   * For every value a of x at once, how many open not-equal neighbours hold a + shift: each arc adds a
+   * shifted window of the neighbour's domain into bit-sliced counters (plane p holds bit p of every
+   * count), so the cost is words per arc instead of values per arc. Returns the number of planes.
+   */
+  #lcvNotEqual(x: number): number {
+    const first = this.#arcStart[x]!;
+    const split = this.#arcSplit[x]!;
+    const nw = this.#nw[x]!;
+    let planes = 1;
+    while (1 << planes <= split - first) planes++;
+    if (this.#planes.length < planes * nw) this.#planes = new Uint32Array(planes * nw);
+    const P = this.#planes;
+    P.fill(0, 0, planes * nw);
+    const dom = this.#dom;
+    const val = this.#val;
+    for (let i = first; i < split; i++) {
+      const y = this.#arcTo[i]!;
+      if (val[y]! >= 0) continue;
+      const shift = this.#arcData[i]!;
+      const offY = this.#off[y]!;
+      const nwY = this.#nw[y]!;
+      for (let w = 0; w < nw; w++) {
+        // Bits (32w + shift) .. (32w + shift + 31) of D(y); words outside the domain read as empty.
+        const start = (w << 5) + shift;
+        const q = start >> 5;
+        const r = start & 31;
+        const lo = q >= 0 && q < nwY ? dom[offY + q]! : 0;
+        let t = lo;
+        if (r !== 0) {
+          const hi = q + 1 >= 0 && q + 1 < nwY ? dom[offY + q + 1]! : 0;
+          t = ((lo >>> r) | (hi << (32 - r))) >>> 0;
+        }
+        for (let p = 0; t !== 0 && p < planes; p++) {
+          const old = P[p * nw + w]!;
+          P[p * nw + w] = (old ^ t) >>> 0;
+          t = (old & t) >>> 0;
+        }
+      }
+    }
+    return planes;
+  }
+
+  /** Values lost in the open neighbours of x if x took a, over predicate arcs and all-different. */
   #lcvScore(x: number, a: number): number {
     const dom = this.#dom;
     const val = this.#val;
     let lost = 0;
-    for (let i = this.#arcStart[x]!; i < this.#arcStart[x + 1]!; i++) {
+    for (let i = this.#arcSplit[x]!; i < this.#arcStart[x + 1]!; i++) {
       const y = this.#arcTo[i]!;
       if (val[y]! >= 0) continue;
       const kind = this.#arcKind[i]!;

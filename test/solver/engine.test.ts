@@ -118,6 +118,35 @@ describe('look-ahead strength', () => {
     expect(fwd.stats.nodes).toBeGreaterThan(0);
   });
 
+  it('least-constraining-value order matches counts made by hand, across word boundaries', () => {
+    // x has 70 values (three words); each neighbour y_i forbids y_i = x + shift_i, so value a of x
+    // costs y_i one value exactly when a + shift_i is in D(y_i).
+    const neighbours: { shift: number; values: number[] }[] = [
+      { shift: 0, values: [1, 40] },
+      { shift: 33, values: [33, 35, 99] },
+      { shift: -5, values: [0, 7, 31] },
+      { shift: 31, values: [31, 63] },
+      { shift: 64, values: [64, 66, 130] },
+    ];
+    const b = new ModelBuilder();
+    const x = b.addVariable('x', 70);
+    for (const [i, nb] of neighbours.entries()) {
+      const y = b.addVariable(`y${i}`, 140, nb.values);
+      b.addNotEqualOffset(x, y, nb.shift, { name: `n${i}` });
+    }
+    const score = (a: number): number => neighbours.filter((nb) => nb.values.includes(a + nb.shift)).length;
+    const expected = Array.from({ length: 70 }, (_, a) => a).sort((p, q) => score(p) - score(q) || p - q);
+    const seen: number[] = [];
+    for (const s of solve(b.build(), { variableOrder: 'static', valueOrder: 'lcv', mode: { kind: 'all' } })
+      .solutions) {
+      if (seen[seen.length - 1] !== s[0]) seen.push(s[0]!);
+    }
+    expect(seen).toEqual(expected);
+    // Value 0 meets y1 (33), y3 (31) and y4 (64), so it is tried last.
+    expect(expected[expected.length - 1]).toBe(0);
+    expect(score(0)).toBe(3);
+  });
+
   it('wide binary predicates beyond the row cache are evaluated and still correct', () => {
     // 10000 x 10000 values exceeds the cached-row limit, so the predicate is evaluated.
     const b = new ModelBuilder();
