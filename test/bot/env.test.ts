@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { parseEnv } from '../../src/main.ts';
+import { parseEnv, startSlackFromEnv } from '../../src/main.ts';
+import { signedPost, writeTestWorkspace } from './support.ts';
 
 describe('chat app environment', () => {
   it('defaults to the console over the demo workspace', () => {
@@ -36,5 +37,38 @@ describe('chat app environment', () => {
       ok: false,
       issues: [{ message: 'SLACK_BOT_TOKEN is needed when other SLACK_ variables are set' }],
     });
+  });
+});
+
+describe('starting from the environment', () => {
+  it('listens in HTTP mode on the given port and answers a signed url_verification', async () => {
+    const env = parseEnv({
+      SLACK_BOT_TOKEN: 'xoxb-env-test',
+      SLACK_SIGNING_SECRET: 'env-test-signing-secret',
+      PORT: '0',
+      SLACK_API_URL: 'http://127.0.0.1:9/api/',
+      SLOTWRIGHT_WORKSPACE: writeTestWorkspace(),
+      SLOTWRIGHT_DATABASE_URL: ':memory:',
+    });
+    if (!env.ok || env.value.SLACK_BOT_TOKEN === undefined) throw new Error('expected a usable environment');
+    const running = await startSlackFromEnv(
+      { ...env.value, SLACK_BOT_TOKEN: env.value.SLACK_BOT_TOKEN },
+      () => {},
+    );
+    try {
+      expect(running.port).toBeGreaterThan(0);
+      const r = await signedPost(
+        running.port!,
+        'env-test-signing-secret',
+        JSON.stringify({ type: 'url_verification', challenge: 'z9' }),
+        {
+          contentType: 'application/json',
+          timestamp: Math.floor(Date.now() / 1000),
+        },
+      );
+      expect([r.status, JSON.parse(r.text)]).toEqual([200, { challenge: 'z9' }]);
+    } finally {
+      await running.stop();
+    }
   });
 });
