@@ -1,6 +1,4 @@
 import type { AllMiddlewareArgs, SlackCommandMiddlewareArgs } from '@slack/bolt';
-import { isSlow, workingReply } from '../../conversation.ts';
-import { textReply } from '../../reply.ts';
 import { type BotDeps, type ChatWebApi, toMessage, unknownUserReply } from '../../slack-adapter.ts';
 
 /** The slash command this app answers. */
@@ -23,13 +21,11 @@ export function slotCommand(deps: BotDeps) {
       await respond({ response_type: 'ephemeral', ...toMessage(unknownUserReply(actor.issues)) } as never);
       return;
     }
+    // The ack already said we are working on it; the answer follows through response_url.
     const parsed = deps.conversation.parse(actor.value, command.text, deps.now());
-    if (parsed.ok && isSlow(parsed.value)) {
-      await respond({ response_type: 'ephemeral', ...toMessage(workingReply(parsed.value)) } as never);
-    }
     const reply = parsed.ok
       ? await deps.conversation.run(actor.value, parsed.value, deps.now())
       : await deps.conversation.command(actor.value, command.text, deps.now());
-    await respond({ response_type: 'ephemeral', ...toMessage(reply ?? textReply('Done.')) } as never);
+    await respond({ response_type: 'ephemeral', ...toMessage(reply) } as never);
   };
 }
