@@ -42,7 +42,8 @@ function earliest(
   who: string,
   window: { start: number; end: number },
 ): string | undefined {
-  const r = findOptions(ctx, { with: [who], lengthMinutes: 30, window });
+  // Ask for every start in the window, so the earliest allowed start is among the options whatever the ranking.
+  const r = findOptions(ctx, { with: [who], lengthMinutes: 30, window, options: 200 });
   if (!r.ok) throw new Error(JSON.stringify(r.issues));
   const starts = r.value.options.map((o) => o.start).sort((a, b) => a - b);
   return starts[0] === undefined ? undefined : new Date(starts[0]).toISOString();
