@@ -7,7 +7,12 @@ import type { Readable } from 'node:stream';
 import { z } from 'zod';
 import { BookingService } from './app/book.ts';
 import { InMemoryRuleStore } from './app/in-memory-rule-store.ts';
-import { DefaultSlotwrightService, feedBusyOf, type ServicePerson } from './app/service.ts';
+import {
+  DefaultSlotwrightService,
+  feedBusyOf,
+  type ServiceOptions,
+  type ServicePerson,
+} from './app/service.ts';
 import { SolvePool } from './app/solve-pool.ts';
 import { runConsole } from './bot/console.ts';
 import { Conversation } from './bot/conversation.ts';
@@ -17,9 +22,11 @@ import { type Result, SlotwrightError } from './errors.ts';
 import {
   openStore,
   parseStoreLocation,
+  SecretBox,
   SqlBookingStore,
   SqlFeedStateStore,
   SqlLedgerStore,
+  SqlWorkspaceStore,
 } from './store/index.ts';
 
 /** The workspace folder used when SLOTWRIGHT_WORKSPACE is not set. */
@@ -46,6 +53,7 @@ export const envSchema = z
     ),
     SLOTWRIGHT_WORKSPACE: z.preprocess(blankToUndefined, z.string().default(DEFAULT_WORKSPACE)),
     SLOTWRIGHT_DATABASE_URL: z.preprocess(blankToUndefined, z.string().optional()),
+    SLOTWRIGHT_SECRET_KEY: z.preprocess(blankToUndefined, z.string().optional()),
     SLOTWRIGHT_TOKEN_KEY: z.preprocess(
       blankToUndefined,
       z.string().min(16, 'must be at least 16 characters').optional(),
@@ -100,6 +108,10 @@ export interface OpenServiceOptions {
   readonly pool?: boolean;
   /** Key signing option tokens; replicas must share it. @default a random key per process */
   readonly tokenKey?: string;
+  /** SLOTWRIGHT_SECRET_KEY (32 bytes, base64): seals feed addresses added in chat. @default none (adding is refused) */
+  readonly secretKey?: string;
+  /** Feed fetcher override (tests). @default the safe fetcher of src/calendar */
+  readonly fetchFeed?: ServiceOptions['fetchFeed'];
 }
 
 /** A service with the adapters it opened, closed together. */
@@ -139,6 +151,10 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
     tokenKey: options.tokenKey ?? randomBytes(32).toString('hex'),
     feedStates: new SqlFeedStateStore(handle),
     clock: options.now,
+    ...(options.secretKey === undefined
+      ? {}
+      : { chatFeeds: new SqlWorkspaceStore(handle, new SecretBox(options.secretKey)) }),
+    ...(options.fetchFeed === undefined ? {} : { fetchFeed: options.fetchFeed }),
     ...(pool === undefined ? {} : { pool }),
   });
   return {
@@ -164,6 +180,8 @@ export interface ConsoleRunOptions {
   readonly isTty: boolean;
   /** Store location (SLOTWRIGHT_DATABASE_URL). @default data/slotwright.sqlite */
   readonly database?: string;
+  /** SLOTWRIGHT_SECRET_KEY, for feeds added in the console. @default none */
+  readonly secretKey?: string;
 }
 
 /** Opens the terminal console over a workspace folder. */
@@ -172,6 +190,7 @@ export async function runConsoleOver(options: ConsoleRunOptions): Promise<number
   const opened = await openService(options.workspaceDir, {
     now,
     ...(options.database === undefined ? {} : { database: options.database }),
+    ...(options.secretKey === undefined ? {} : { secretKey: options.secretKey }),
   });
   try {
     const service = opened.service;
@@ -211,6 +230,7 @@ export async function startSlackFromEnv(
     ...(env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: env.SLOTWRIGHT_DATABASE_URL }),
     // Replicas behind a load balancer must share the key; one process can make its own.
     ...(env.SLOTWRIGHT_TOKEN_KEY === undefined ? {} : { tokenKey: env.SLOTWRIGHT_TOKEN_KEY }),
+    ...(env.SLOTWRIGHT_SECRET_KEY === undefined ? {} : { secretKey: env.SLOTWRIGHT_SECRET_KEY }),
   });
   const connection: SlackConnection =
     env.SLACK_APP_TOKEN !== undefined

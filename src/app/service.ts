@@ -319,6 +319,18 @@ export interface ServiceOptions {
   readonly feedStates?: FeedStateStore;
   /** Clock of the feed cache. @default Date.now */
   readonly clock?: () => number;
+  /** Feeds people add in chat (URLs stored sealed); adding is refused without it. @default undefined */
+  readonly chatFeeds?: ChatFeedStore;
+  /** Fetches feed URLs (the safe fetcher of src/calendar by default; tests pass a stub). @default fetchFeed */
+  readonly fetchFeed?: FeedsDeps['fetch'];
+}
+
+/** Where feeds added in chat are kept (SqlWorkspaceStore implements it, sealing the URLs). */
+export interface ChatFeedStore {
+  addFeed(feed: { readonly id: string; readonly owner: string; readonly url: string }): Promise<void>;
+  feeds(
+    owner?: string,
+  ): Promise<readonly { readonly id: string; readonly owner: string; readonly url: string }[]>;
 }
 
 const DAY_MS = 86_400_000;
@@ -371,14 +383,14 @@ export class DefaultSlotwrightService implements SlotwrightService {
     return first;
   }
 
-  /** The workspace's feeds as the feed use cases name them (`<owner>:<n>`). */
-  #feedSpecs(ownerIds?: readonly string[]): FeedSpec[] {
+  /** The workspace's feeds as the feed use cases name them (`<owner>:<n>`), plus feeds added in chat. */
+  async #feedSpecs(ownerIds?: readonly string[]): Promise<FeedSpec[]> {
     const ws = this.#o.workspace;
     const owners = [
       ...ws.people.map((p) => ({ id: p.id, zone: p.zone, email: p.email, feeds: p.feeds })),
       ...ws.rooms.map((r) => ({ id: r.id, zone: r.zone, email: undefined, feeds: r.feeds })),
     ].filter((o) => ownerIds === undefined || ownerIds.includes(o.id));
-    return owners.flatMap((o) =>
+    const specs: FeedSpec[] = owners.flatMap((o) =>
       o.feeds.map((f, i) => ({
         id: `${o.id}:${i}`,
         ownerId: o.id,
@@ -387,10 +399,26 @@ export class DefaultSlotwrightService implements SlotwrightService {
         ...(o.email === undefined ? {} : { ownerEmail: o.email }),
       })),
     );
+    for (const f of (await this.#o.chatFeeds?.feeds()) ?? []) {
+      const o = owners.find((x) => x.id === f.owner);
+      if (o === undefined) continue;
+      specs.push({
+        id: f.id,
+        ownerId: f.owner,
+        source: f.url,
+        zone: o.zone,
+        ...(o.email === undefined ? {} : { ownerEmail: o.email }),
+      });
+    }
+    return specs;
   }
 
   #feedDeps(states: FeedStateStore): FeedsDeps {
-    return { states, clock: this.#o.clock ?? Date.now };
+    return {
+      states,
+      clock: this.#o.clock ?? Date.now,
+      ...(this.#o.fetchFeed === undefined ? {} : { fetch: this.#o.fetchFeed }),
+    };
   }
 
   /** Feed busy time by owner: from the feed cache (refreshing what is missing or stale), else the files. */
@@ -401,7 +429,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     const states = this.#o.feedStates;
     if (states === undefined) return fileBusy(this.#o.workspace, ids, span);
     const deps = this.#feedDeps(states);
-    const specs = this.#feedSpecs(ids);
+    const specs = await this.#feedSpecs(ids);
     const before = await busyByOwner(specs, span, deps);
     const stale = new Set(
       [...before.values()].flatMap((o) => o.feeds.filter((f) => f.stale).map((f) => f.feedId)),
@@ -703,18 +731,47 @@ export class DefaultSlotwrightService implements SlotwrightService {
     return { ok: true, value: { id: r.value.id, text: r.value.text, strength: r.value.rule.strength } };
   }
 
-  async addFeed(_actor: ServicePerson, _url: string, _nowMs: number): Promise<Result<FeedView>> {
-    return failure(
-      'not_available',
-      'feeds are listed in the workspace file in this build; ask an admin to add the address under your name',
-    );
+  async addFeed(actor: ServicePerson, url: string, nowMs: number): Promise<Result<FeedView>> {
+    const store = this.#o.chatFeeds;
+    const states = this.#o.feedStates;
+    if (store === undefined || states === undefined)
+      return failure(
+        'not_available',
+        'adding feeds in chat needs SLOTWRIGHT_SECRET_KEY (feed addresses are stored encrypted); ask an admin',
+      );
+    if (!/^https:\/\/[^\s/]+/i.test(url))
+      return failure(
+        'feed_refused',
+        'give the https address of an .ics calendar, e.g. https://calendar.example/me.ics',
+        ['url'],
+      );
+    const mine = (await store.feeds(actor.id)).length;
+    const spec: FeedSpec = {
+      id: `${actor.id}:chat:${mine + 1}`,
+      ownerId: actor.id,
+      source: url,
+      zone: actor.zone,
+      ...(actor.email === undefined ? {} : { ownerEmail: actor.email }),
+    };
+    // Read it once before keeping it, so a wrong or refused address is reported now, not later.
+    const [first] = await refreshFeeds([spec], this.#feedDeps(states));
+    if (first === undefined || first.error !== undefined)
+      return failure(
+        'feed_unreadable',
+        `that feed could not be read: ${first?.error ?? 'no answer'}; nothing was saved`,
+        ['url'],
+      );
+    await store.addFeed({ id: spec.id, owner: actor.id, url });
+    return {
+      ok: true,
+      value: { label: redactUrl(url), owner: actor.id, freshness: 'fresh', fetchedAt: nowMs },
+    };
   }
 
   async feeds(actor: ServicePerson, nowMs: number): Promise<Result<readonly FeedView[]>> {
     const p = this.#o.workspace.people.find((x) => x.id === actor.id);
     if (p === undefined) return { ok: true, value: [] };
     const states = this.#o.feedStates;
-    const label = (f: (typeof p.feeds)[number]) => (f.kind === 'url' ? redactUrl(f.url) : f.ref);
     if (states === undefined) {
       // Without a feed cache the files are read on every request, so they are as fresh as the files.
       return {
@@ -727,20 +784,22 @@ export class DefaultSlotwrightService implements SlotwrightService {
                 freshness: 'fresh',
                 note: 'read from the workspace folder on each request',
               }
-            : { label: label(f), owner: actor.id, freshness: 'never', note: 'URL feeds need the feed cache' },
+            : {
+                label: redactUrl(f.url),
+                owner: actor.id,
+                freshness: 'never',
+                note: 'URL feeds need the feed cache',
+              },
         ),
       };
     }
-    const byOwner = await busyByOwner(
-      this.#feedSpecs([actor.id]),
-      { start: nowMs, end: nowMs + DAY_MS },
-      this.#feedDeps(states),
-    );
+    const specs = await this.#feedSpecs([actor.id]);
+    const byOwner = await busyByOwner(specs, { start: nowMs, end: nowMs + DAY_MS }, this.#feedDeps(states));
     const fresh = byOwner.get(actor.id)?.feeds ?? [];
     return {
       ok: true,
-      value: p.feeds.map((f, i): FeedView => {
-        const st = fresh.find((x) => x.feedId === `${actor.id}:${i}`);
+      value: specs.map((spec): FeedView => {
+        const st = fresh.find((x) => x.feedId === spec.id);
         const freshness =
           st === undefined || st.ageMs === undefined
             ? 'never'
@@ -749,8 +808,10 @@ export class DefaultSlotwrightService implements SlotwrightService {
               : st.stale
                 ? 'stale'
                 : 'fresh';
+        const wsFeed = p.feeds.find((_, i) => spec.id === `${actor.id}:${i}`);
+        const label = wsFeed?.kind === 'file' ? wsFeed.ref : redactUrl(spec.source);
         return {
-          label: label(f),
+          label,
           owner: actor.id,
           freshness,
           ...(st?.ageMs === undefined ? {} : { fetchedAt: nowMs - st.ageMs }),

@@ -213,3 +213,84 @@ describe('service over a workspace and a SQLite store', () => {
     ).toBe(true);
   });
 });
+
+describe('feeds added in chat', () => {
+  let withFeeds: OpenedService;
+  const fetched: string[] = [];
+  // Rui's private calendar (invented): busy Wednesday 2026-12-09 10:00-12:00 UTC.
+  const RUI_ICS = [
+    'BEGIN:VCALENDAR',
+    'VERSION:2.0',
+    'PRODID:-//slotwright tests//EN',
+    'BEGIN:VEVENT',
+    'UID:rui-1@saltline.example',
+    'DTSTAMP:20261201T000000Z',
+    'DTSTART:20261209T100000Z',
+    'DTEND:20261209T120000Z',
+    'SUMMARY:Dentist',
+    'END:VEVENT',
+    'END:VCALENDAR',
+    '',
+  ].join('\r\n');
+  beforeAll(async () => {
+    withFeeds = await openService(writeTestWorkspace(), {
+      now: () => NOW,
+      database: ':memory:',
+      pool: false,
+      secretKey: Buffer.alloc(32, 7).toString('base64'),
+      fetchFeed: async (url) => {
+        fetched.push(url);
+        if (url.includes('broken')) throw new Error('HTTP 404 from calendar.example');
+        return { status: 'ok', body: RUI_ICS, etag: undefined, lastModified: undefined };
+      },
+    });
+  });
+  afterAll(() => withFeeds.close());
+
+  it('reads a feed once before keeping it, lists it as fresh, and counts its busy time', async () => {
+    const s = withFeeds.service;
+    const rui = s.person('rui')!;
+    expect(await s.addFeed(rui, 'http://calendar.example/rui.ics', NOW)).toMatchObject({
+      ok: false,
+      issues: [{ code: 'feed_refused' }],
+    });
+    const broken = await s.addFeed(rui, 'https://calendar.example/broken.ics', NOW);
+    expect(broken).toMatchObject({ ok: false, issues: [{ code: 'feed_unreadable' }] });
+    expect((await s.feeds(rui, NOW)).ok && (await s.feeds(rui, NOW))).toMatchObject({ ok: true, value: [] });
+    const added = await s.addFeed(rui, 'https://calendar.example/rui.ics?token=secret123', NOW);
+    expect(added).toMatchObject({ ok: true, value: { freshness: 'fresh', owner: 'rui' } });
+    // The address is shown without its private token.
+    expect(added.ok && added.value.label).not.toContain('secret123');
+    const listed = await s.feeds(rui, NOW);
+    expect(listed.ok && listed.value.map((f) => f.freshness)).toEqual(['fresh']);
+    const r = await s.meet(
+      rui,
+      {
+        lengthMinutes: 60,
+        required: [{ kind: 'name', id: 'lena' }],
+        optional: [],
+        features: [],
+        window: { from: '2026-12-09', to: '2026-12-09' },
+      },
+      NOW,
+    );
+    expect(r.ok && r.value.options.length).toBeGreaterThan(0);
+    const busy = { start: Date.UTC(2026, 11, 9, 10), end: Date.UTC(2026, 11, 9, 12) };
+    expect(r.ok && r.value.options.every((o) => o.end <= busy.start || o.start >= busy.end)).toBe(true);
+  });
+
+  it('refuses to add feeds when no secret key seals their addresses', async () => {
+    const s = (await import('../../src/main.ts')).openService;
+    const plain = await s(writeTestWorkspace(), { now: () => NOW, database: ':memory:', pool: false });
+    try {
+      const r = await plain.service.addFeed(
+        plain.service.person('rui')!,
+        'https://calendar.example/x.ics',
+        NOW,
+      );
+      expect(r).toMatchObject({ ok: false, issues: [{ code: 'not_available' }] });
+    } finally {
+      await plain.close();
+    }
+  });
+});

@@ -49,6 +49,7 @@ export const command: CliCommand = {
       err: io.err,
       isTty: process.stdin.isTTY === true && process.stdout.isTTY === true,
       ...(io.env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: io.env.SLOTWRIGHT_DATABASE_URL }),
+      ...(io.env.SLOTWRIGHT_SECRET_KEY === undefined ? {} : { secretKey: io.env.SLOTWRIGHT_SECRET_KEY }),
     });
   },
 };

@@ -33,6 +33,7 @@ export const command: CliCommand = {
         err: io.err,
         isTty: process.stdin.isTTY === true && process.stdout.isTTY === true,
         ...(e.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: e.SLOTWRIGHT_DATABASE_URL }),
+        ...(e.SLOTWRIGHT_SECRET_KEY === undefined ? {} : { secretKey: e.SLOTWRIGHT_SECRET_KEY }),
       });
     }
     const running = await startSlackFromEnv({ ...e, SLACK_BOT_TOKEN: e.SLACK_BOT_TOKEN }, io.err);
