@@ -49,6 +49,8 @@ export interface PlanWeekOptions {
   readonly roundMoves?: number;
   /** With `timeMs`, how long placing (before any improvement) may take at most, in ms, even past `timeMs`. @default 10000 */
   readonly placeMs?: number;
+  /** Every how many improvement rounds one anneals (the others are min-conflicts descent). @default 4 */
+  readonly annealEvery?: number;
   /** Node limit of each construction search. @default 200000 */
   readonly searchNodes?: number;
   /** Seed of every randomized step; same seed and move budget, same plan. @default 1 */
@@ -92,6 +94,7 @@ const DEFAULTS = {
   searchNodes: 200_000,
   seed: 1,
   placeMs: 10_000,
+  annealEvery: 4,
 } satisfies Partial<PlanWeekOptions>;
 
 /**
@@ -275,7 +278,7 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
     if (r !== undefined && r <= 0) break;
     // Rounds alternate: min-conflicts moves one session to its best value (steepest descent, which
     // finds the few improving moves of a tight week), annealing walks wider with cheap random moves.
-    const descent = rounds % 2 === 0;
+    const descent = (rounds + 1) % o.annealEvery !== 0;
     // A round always gets its full size (the annealing schedule depends on it); when fewer moves are
     // left, it is cut short by a signal instead, so a short run is a prefix of a longer one with the
     // same seed and more moves never give a worse plan.
