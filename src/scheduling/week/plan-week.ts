@@ -276,8 +276,8 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   while (sessionsOf.length > 0 && moves < o.moves) {
     const r = remaining();
     if (r !== undefined && r <= 0) break;
-    // Rounds alternate: min-conflicts moves one session to its best value (steepest descent, which
-    // finds the few improving moves of a tight week), annealing walks wider with cheap random moves.
+    // Most rounds are min-conflicts descent (one session to its best value, which finds the few
+    // improving moves of a tight week); every `annealEvery`-th anneals, walking wider with cheap moves.
     const descent = (rounds + 1) % o.annealEvery !== 0;
     // A round always gets its full size (the annealing schedule depends on it); when fewer moves are
     // left, it is cut short by a signal instead, so a short run is a prefix of a longer one with the
