@@ -6,7 +6,6 @@ import { randomBytes, randomUUID } from 'node:crypto';
 import type { Readable } from 'node:stream';
 import { z } from 'zod';
 import { BookingService } from './app/book.ts';
-import { InMemoryRuleStore } from './app/in-memory-rule-store.ts';
 import {
   DefaultSlotwrightService,
   feedBusyOf,
@@ -26,6 +25,7 @@ import {
   SqlBookingStore,
   SqlFeedStateStore,
   SqlLedgerStore,
+  SqlRuleStore,
   SqlWorkspaceStore,
 } from './store/index.ts';
 
@@ -147,7 +147,7 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
     deliveries: ledger,
     bookings,
     bookingStore,
-    rules: new InMemoryRuleStore(),
+    rules: new SqlRuleStore(handle),
     tokenKey: options.tokenKey ?? randomBytes(32).toString('hex'),
     feedStates: new SqlFeedStateStore(handle),
     clock: options.now,

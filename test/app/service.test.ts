@@ -294,3 +294,37 @@ describe('feeds added in chat', () => {
     }
   });
 });
+
+describe('what chat stores survives a restart', () => {
+  it('keeps a confirmed rule and a booking in the SQLite file', async () => {
+    const { mkdtempSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const db = join(mkdtempSync(join(tmpdir(), 'slotwright-db-')), 'store.sqlite');
+    const ws = writeTestWorkspace();
+    const first = await openService(ws, { now: () => NOW, database: db, pool: false });
+    const rui = first.service.person('rui')!;
+    const preview = await first.service.previewRule(rui, 'no meetings on fridays', NOW);
+    if (!preview.ok) throw new Error(preview.issues[0]!.message);
+    await first.service.confirmRule(rui, preview.value.token, NOW);
+    const r = await first.service.meet(
+      rui,
+      { lengthMinutes: 30, required: [{ kind: 'name', id: 'lena' }], optional: [], features: [] },
+      NOW,
+    );
+    if (!r.ok) throw new Error('expected options');
+    const booked = await first.service.book(rui, r.value.options[0]!.token, NOW);
+    await first.close();
+    const second = await openService(ws, { now: () => NOW, database: db, pool: false });
+    try {
+      const rules = await second.service.rules(second.service.person('rui')!);
+      expect(rules.ok && rules.value.map((x) => x.text)).toEqual([preview.value.description]);
+      const upcoming = await second.service.upcoming(second.service.person('lena')!, NOW);
+      expect(booked.ok && upcoming.ok && upcoming.value.map((b) => b.id)).toEqual([
+        booked.ok ? booked.value.id : '',
+      ]);
+    } finally {
+      await second.close();
+    }
+  });
+});
