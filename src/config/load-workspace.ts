@@ -3,6 +3,7 @@ import { join, resolve } from 'node:path';
 import { isMap, isPair, isScalar, LineCounter, type Node, parseDocument } from 'yaml';
 import type { z } from 'zod';
 import type { Issue, Result } from '../errors.ts';
+import type { RestSettings } from '../rules/rest-settings.ts';
 import {
   type DailyRange,
   DEFAULT_WORKING_HOURS,
@@ -11,6 +12,7 @@ import {
   type WeeklyHours,
 } from '../time/working-hours.ts';
 import type { SeriesConfig, WeekPlanSettings } from './series-schema.ts';
+import type { WeekPostSettings } from './week-post-schema.ts';
 import { WORKSPACE_KEYS, workspaceSchema } from './workspace-schema.ts';
 
 /** Where a feed comes from: a file inside the workspace folder or an https URL. */
@@ -31,6 +33,8 @@ export interface WorkspacePerson {
   readonly feeds: readonly FeedRef[];
   /** Rules in plain words, as written. */
   readonly rules: readonly string[];
+  /** This person's rest between days, when set on them. */
+  readonly rest?: RestSettings;
 }
 
 /** A bookable room. */
@@ -72,6 +76,10 @@ export interface Workspace {
   readonly groups: readonly WorkspaceGroup[];
   readonly series: readonly SeriesConfig[];
   readonly weekPlan: WeekPlanSettings;
+  /** When and where the week plan is posted (`weekPlan.post`, `.channel`, `.zone`); no post when absent. */
+  readonly weekPost?: WeekPostSettings;
+  /** Rest between days for everyone, when set (`rest:`). */
+  readonly rest?: RestSettings;
   /** Things that loaded but look wrong (unknown keys); never errors. */
   readonly warnings: readonly string[];
 }
@@ -188,6 +196,8 @@ export function parseWorkspace(
   const warnings = Object.keys(raw)
     .filter((k) => !WORKSPACE_KEYS.includes(k))
     .map((k) => `${name}:${lineOf(doc, lc, [], k)}: unknown top-level key '${k}' was ignored`);
+  // The post settings ride in `weekPlan:` as written but are the chat side's, not the engine's.
+  const { post, channel, zone: postZone, ...engineSettings } = ws.weekPlan;
   const defaultHours = ws.workingHours === undefined ? DEFAULT_WORKING_HOURS : hoursOf(ws.workingHours);
   const value: Workspace = {
     dir: where.dir,
@@ -209,6 +219,7 @@ export function parseWorkspace(
       ...(p.holidays === undefined ? {} : { holidays: p.holidays.toUpperCase() }),
       feeds: p.feeds.map((f) => feedRef(where.dir, f)),
       rules: p.rules,
+      ...(p.rest === undefined ? {} : { rest: p.rest }),
     })),
     rooms: ws.rooms.map((r) => ({
       id: r.id,
@@ -225,7 +236,11 @@ export function parseWorkspace(
       members: g.members,
     })),
     series: ws.series,
-    weekPlan: ws.weekPlan,
+    weekPlan: engineSettings,
+    ...(post === undefined || channel === undefined || postZone === undefined
+      ? {}
+      : { weekPost: { post, channel, zone: postZone } }),
+    ...(ws.rest === undefined ? {} : { rest: ws.rest }),
     warnings,
   };
   return { ok: true, value };

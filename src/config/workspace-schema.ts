@@ -1,8 +1,10 @@
 import { z } from 'zod';
+import { restSettingsSchema } from '../rules/rest-settings.ts';
 import { isKnownHolidayRegion } from '../time/holidays.ts';
 import { type DailyRange, parseDailyRange, WEEKDAY_KEYS, type WeekdayKey } from '../time/working-hours.ts';
 import { isValidZone } from '../time/zoned.ts';
 import { seriesListSchema, weekPlanSettingsSchema } from './series-schema.ts';
+import { weekPostChannelSchema, weekPostTimeSchema, weekPostZoneSchema } from './week-post-schema.ts';
 
 const idSchema = z.string().regex(/^[a-z0-9-]+$/, {
   message: 'expected an id of lower-case letters, digits and dashes, for example "ana" or "chart-room"',
@@ -65,6 +67,8 @@ export const personSchema = z.strictObject({
   holidays: holidayRegionSchema.optional(),
   feeds: z.array(feedSchema).default([]),
   rules: ruleListSchema,
+  /** Rest between days for this person; wins over the workspace's. @default the workspace's */
+  rest: restSettingsSchema.optional(),
 });
 
 /** One room as written under `rooms:`. */
@@ -84,6 +88,31 @@ export const groupSchema = z.strictObject({
   name: z.string().min(1).optional(),
   members: z.array(idSchema).min(1, { message: 'a group needs at least one member' }),
 });
+
+const POST_KEYS = ['post', 'channel', 'zone'] as const;
+
+/**
+ * `weekPlan:` as written: the engine's settings plus the optional weekly post (`post`, `channel`,
+ * `zone`), which come together or not at all.
+ */
+export const weekPlanSectionSchema = weekPlanSettingsSchema
+  .unwrap()
+  .extend({
+    post: weekPostTimeSchema.optional(),
+    channel: weekPostChannelSchema.optional(),
+    zone: weekPostZoneSchema.optional(),
+  })
+  .superRefine((w, ctx) => {
+    const given = POST_KEYS.filter((k) => w[k] !== undefined);
+    if (given.length === 0 || given.length === POST_KEYS.length) return;
+    for (const k of POST_KEYS.filter((x) => w[x] === undefined))
+      ctx.addIssue({
+        code: 'custom',
+        path: [k],
+        message: `the weekly post needs post, channel and zone together (got ${given.join(', ')}); add ${k} or remove the others`,
+      });
+  })
+  .prefault({});
 
 /** Minutes between candidate starts must divide an hour, so every hour starts on a tick. */
 const GRID_CHOICES = [1, 2, 3, 4, 5, 6, 10, 12, 15, 20, 30, 60] as const;
@@ -108,7 +137,9 @@ export const workspaceSchema = z
     rooms: z.array(roomSchema).default([]),
     groups: z.array(groupSchema).default([]),
     series: seriesListSchema,
-    weekPlan: weekPlanSettingsSchema,
+    weekPlan: weekPlanSectionSchema,
+    /** Rest between days for everyone (a person's own `rest` wins). @default none */
+    rest: restSettingsSchema.optional(),
   })
   .superRefine((ws, ctx) => {
     const owner = new Map<string, string>();
