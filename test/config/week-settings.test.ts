@@ -82,11 +82,12 @@ describe('weekPlan post settings and rest in workspace.yaml', () => {
     expect(r.value.rest).toBeUndefined();
   });
 
-  it('src/jobs still exports the schema and parser it had, now the config ones', () => {
+  it('config and jobs read the post time with one parser: Friday 14:00 is cron 0 14 * * 5', () => {
     expect(jobs.parseWeekPostTime).toBe(parseWeekPostTime);
     expect(jobs.weekPostSettingsSchema).toBe(weekPostSettingsSchema);
-    // ISO weekday 5 = Friday (ISO 8601); 14:00 = 840 minutes.
+    // ISO weekday 5 = Friday (ISO 8601); cron counts Sunday as 0 (common practice).
     expect(parseWeekPostTime('fri 14:00')).toEqual({ weekday: 5, minutes: 840 });
     expect(jobs.weekPostCron(parseWeekPostTime('fri 14:00'))).toBe('0 14 * * 5');
+    expect(weekPostSettingsSchema.safeParse({ post: 'fri 14:00', channel: 'C0123ABCD' }).success).toBe(false);
   });
 });
