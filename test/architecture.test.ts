@@ -78,7 +78,8 @@ describe('layering', () => {
         for (const spec of importsOf(file)) {
           if (!spec.startsWith('.')) continue;
           const target = relative(SRC, join(file, '..', spec)).split(/[\\/]/)[0]!;
-          if ((OUTER as readonly string[]).includes(target) && target !== layer)
+          // config (schemas and the workspace loader) sits under every outer layer, so any may import it
+          if ((OUTER as readonly string[]).includes(target) && target !== layer && target !== 'config')
             offences.push(`${relative(SRC, file)}: ${spec}`);
         }
       }
