@@ -3,21 +3,34 @@
  * starts the chat app (Slack when tokens are set) or the terminal console.
  */
 import { randomBytes, randomUUID } from 'node:crypto';
+import { hostname } from 'node:os';
+import { join } from 'node:path';
 import type { Readable } from 'node:stream';
+import pg from 'pg';
 import { z } from 'zod';
 import { BookingService } from './app/book.ts';
+import type { ChatTransport, FairnessLedger } from './app/ports.ts';
 import {
   DefaultSlotwrightService,
   feedBusyOf,
+  fileInviteOutbox,
   type ServiceOptions,
   type ServicePerson,
 } from './app/service.ts';
 import { SolvePool } from './app/solve-pool.ts';
+import { startWeekPlanPosting, type WeekPostCoordination } from './app/week-post.ts';
 import { runConsole } from './bot/console.ts';
 import { Conversation } from './bot/conversation.ts';
 import type { RunningSlackApp, SlackConnection } from './bot/slack-app.ts';
-import { loadWorkspace } from './config/index.ts';
-import { type Result, SlotwrightError } from './errors.ts';
+import { loadWorkspace, type Workspace } from './config/index.ts';
+import { normalizeError, type Result, SlotwrightError } from './errors.ts';
+import {
+  type HoldReleaser,
+  type HoldSweeper,
+  PgCronRunCoordinator,
+  startHoldSweeper,
+  type WeekPostJob,
+} from './jobs/index.ts';
 import {
   openStore,
   parseStoreLocation,
@@ -58,6 +71,7 @@ export const envSchema = z
       blankToUndefined,
       z.string().min(16, 'must be at least 16 characters').optional(),
     ),
+    SLOTWRIGHT_INVITES_DIR: z.preprocess(blankToUndefined, z.string().optional()),
   })
   .superRefine((env, ctx) => {
     if (
@@ -112,6 +126,12 @@ export interface OpenServiceOptions {
   readonly secretKey?: string;
   /** Feed fetcher override (tests). @default the safe fetcher of src/calendar */
   readonly fetchFeed?: ServiceOptions['fetchFeed'];
+  /** SLOTWRIGHT_INVITES_DIR: where weekly invites of a locked week are written for download. @default data/invites */
+  readonly invitesDir?: string;
+  /** Search time of a week plan in ms. @default 5000 */
+  readonly weekTimeMs?: number;
+  /** Least time between week-plan progress reports in ms. @default 1000 */
+  readonly weekProgressMs?: number;
 }
 
 /** A service with the adapters it opened, closed together. */
@@ -119,6 +139,10 @@ export interface OpenedService {
   readonly service: DefaultSlotwrightService;
   /** The worker pool the service solves on, when there is one. */
   readonly pool: SolvePool | undefined;
+  /** The store's holds, for the hold sweeper. */
+  readonly holds: HoldReleaser;
+  /** Fairness history, for the weekly post. */
+  readonly fairness: FairnessLedger;
   close(): Promise<void>;
 }
 
@@ -142,6 +166,11 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
     admins: ws.value.admins,
   });
   const pool = options.pool === false ? undefined : new SolvePool();
+  // Week plans are not sealed; the box only matters for feed addresses, which need the real key.
+  const workspaceStore = new SqlWorkspaceStore(
+    handle,
+    new SecretBox(options.secretKey ?? randomBytes(32).toString('base64')),
+  );
   const service = new DefaultSlotwrightService({
     workspace: ws.value,
     deliveries: ledger,
@@ -151,15 +180,21 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
     tokenKey: options.tokenKey ?? randomBytes(32).toString('hex'),
     feedStates: new SqlFeedStateStore(handle),
     clock: options.now,
-    ...(options.secretKey === undefined
-      ? {}
-      : { chatFeeds: new SqlWorkspaceStore(handle, new SecretBox(options.secretKey)) }),
+    weekPlans: workspaceStore,
+    fairness: ledger,
+    inviteOutbox: fileInviteOutbox(options.invitesDir ?? join(process.cwd(), 'data', 'invites')),
+    inviteDomain: 'slotwright.invalid',
+    ...(options.weekTimeMs === undefined ? {} : { weekTimeMs: options.weekTimeMs }),
+    ...(options.weekProgressMs === undefined ? {} : { weekProgressMs: options.weekProgressMs }),
+    ...(options.secretKey === undefined ? {} : { chatFeeds: workspaceStore }),
     ...(options.fetchFeed === undefined ? {} : { fetchFeed: options.fetchFeed }),
     ...(pool === undefined ? {} : { pool }),
   });
   return {
     service,
     pool,
+    holds: bookingStore,
+    fairness: ledger,
     close: async () => {
       await pool?.close();
       await handle.close();
@@ -182,13 +217,17 @@ export interface ConsoleRunOptions {
   readonly database?: string;
   /** SLOTWRIGHT_SECRET_KEY, for feeds added in the console. @default none */
   readonly secretKey?: string;
+  /** Where weekly invites are written. @default SLOTWRIGHT_INVITES_DIR, else data/invites */
+  readonly invitesDir?: string;
 }
 
 /** Opens the terminal console over a workspace folder. */
 export async function runConsoleOver(options: ConsoleRunOptions): Promise<number> {
   const now = options.nowMs === undefined ? () => Date.now() : () => options.nowMs!;
+  const invitesDir = options.invitesDir ?? process.env.SLOTWRIGHT_INVITES_DIR;
   const opened = await openService(options.workspaceDir, {
     now,
+    ...(invitesDir === undefined || invitesDir === '' ? {} : { invitesDir }),
     ...(options.database === undefined ? {} : { database: options.database }),
     ...(options.secretKey === undefined ? {} : { secretKey: options.secretKey }),
   });
@@ -227,6 +266,7 @@ export async function startSlackFromEnv(
 ): Promise<RunningSlackApp> {
   const opened = await openService(env.SLOTWRIGHT_WORKSPACE, {
     now: () => Date.now(),
+    ...(env.SLOTWRIGHT_INVITES_DIR === undefined ? {} : { invitesDir: env.SLOTWRIGHT_INVITES_DIR }),
     ...(env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: env.SLOTWRIGHT_DATABASE_URL }),
     // Replicas behind a load balancer must share the key; one process can make its own.
     ...(env.SLOTWRIGHT_TOKEN_KEY === undefined ? {} : { tokenKey: env.SLOTWRIGHT_TOKEN_KEY }),
@@ -245,12 +285,117 @@ export async function startSlackFromEnv(
     log,
     ...(env.SLACK_API_URL === undefined ? {} : { slackApiUrl: env.SLACK_API_URL }),
   });
+  const jobs = startBackgroundJobs({
+    workspace: opened.service.workspace,
+    chat: running.chat,
+    holds: opened.holds,
+    fairness: opened.fairness,
+    ...(env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: env.SLOTWRIGHT_DATABASE_URL }),
+    now: () => Date.now(),
+    log,
+  });
   return {
     port: running.port,
     chat: running.chat,
     stop: async () => {
+      await jobs.stop();
       await running.stop();
       await opened.close();
     },
   };
+}
+
+/** What the background jobs need from the running app. */
+export interface BackgroundJobsOptions {
+  readonly workspace: Workspace;
+  /** The chat transport of the running app; without it there is nothing to post to. @default undefined */
+  readonly chat?: Pick<ChatTransport, 'post'>;
+  /** The store's holds, released by the sweeper. */
+  readonly holds: HoldReleaser;
+  /** Fairness history weighed by the weekly plan. @default undefined */
+  readonly fairness?: FairnessLedger;
+  /** SLOTWRIGHT_DATABASE_URL; a postgres:// URL makes replicas coordinate. @default SQLite (one process) */
+  readonly database?: string;
+  /** Opens the PostgreSQL pool the coordinators use (tests pass a stand-in). @default a pg Pool on `database` */
+  readonly openPgPool?: (url: string) => import('pg').Pool;
+  /** Names this replica in the coordinators' records. @default host name and process id */
+  readonly replica?: string;
+  readonly now: () => number;
+  readonly log: (text: string) => void;
+}
+
+/** The running background jobs and how they were wired. */
+export interface BackgroundJobs {
+  /** The weekly post, when the workspace has post settings and chat is configured. */
+  readonly weekPost: WeekPostJob | undefined;
+  /** How replicas agree on the weekly post (and the sweeper's ticks). */
+  readonly coordination: WeekPostCoordination['kind'];
+  readonly holdSweeper: HoldSweeper;
+  stop(): Promise<void>;
+}
+
+/** True for a SLOTWRIGHT_DATABASE_URL that names PostgreSQL. */
+export function isPostgresUrl(url: string | undefined): url is string {
+  return url !== undefined && /^postgres(ql)?:\/\//i.test(url);
+}
+
+/**
+ * Starts the scheduled jobs of a running chat app: the weekly week-plan post (when the workspace sets
+ * `weekPlan.post` and chat is configured) and the hold sweeper. With PostgreSQL both run once across
+ * replicas (advisory lock for the post, cron-slot rows for the sweeper); with SQLite there is one process.
+ */
+export function startBackgroundJobs(options: BackgroundJobsOptions): BackgroundJobs {
+  const replica = options.replica ?? `${hostname()}:${process.pid}`;
+  let pgPool: import('pg').Pool | undefined;
+  const coordination: WeekPostCoordination = (() => {
+    if (!isPostgresUrl(options.database)) return { kind: 'single' };
+    pgPool = (options.openPgPool ?? defaultPgPool)(options.database);
+    return { kind: 'postgres', pool: pgPool, replica };
+  })();
+  const settings = options.workspace.weekPost;
+  const weekPost =
+    settings === undefined || options.chat === undefined
+      ? undefined
+      : startWeekPlanPosting(
+          settings,
+          {
+            workspace: () => options.workspace,
+            chat: options.chat,
+            now: options.now,
+            clock: () => performance.now(),
+            ...(options.fairness === undefined ? {} : { fairness: options.fairness }),
+          },
+          coordination,
+          {
+            onOutcome: (outcome, request) =>
+              options.log(`week post ${request.isoWeek} to ${request.channel}: ${outcome}`),
+            onError: (error, request) =>
+              options.log(`week post ${request.isoWeek} failed: ${error.code}: ${error.message}`),
+          },
+        );
+  if (weekPost !== undefined)
+    options.log(`week plan posts ${settings!.post} (${settings!.zone}) to ${settings!.channel}`);
+  const holdSweeper = startHoldSweeper(options.holds, options.now, {
+    ...(coordination.kind === 'postgres'
+      ? { runCoordinator: new PgCronRunCoordinator(coordination.pool, { replica, clock: options.now }) }
+      : {}),
+    onError: (error) => options.log(`hold sweeper: ${error.code}: ${error.message}`),
+  });
+  return {
+    weekPost,
+    coordination: coordination.kind,
+    holdSweeper,
+    stop: async () => {
+      await weekPost?.stop();
+      await holdSweeper.stop();
+      await pgPool
+        ?.end()
+        .catch((error: unknown) => options.log(`jobs pool: ${normalizeError(error).message}`));
+    },
+  };
+}
+
+function defaultPgPool(url: string): import('pg').Pool {
+  // Two connections are plenty for once-a-minute and once-a-week jobs.
+  return new pg.Pool({ connectionString: url, max: 2 });
 }

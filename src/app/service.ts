@@ -4,6 +4,9 @@
  * not wired into this build (`not_available`).
  */
 import { createHmac, randomUUID, timingSafeEqual } from 'node:crypto';
+import { mkdir, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { Worker } from 'node:worker_threads';
 import { redactUrl } from '../calendar/index.ts';
 import type { Workspace } from '../config/index.ts';
 import { type Issue, type Result, SlotwrightError } from '../errors.ts';
@@ -17,15 +20,34 @@ import {
   type SchedulingContext,
   WIDEN_DAYS,
 } from '../scheduling/index.ts';
+import type { WeekProgress } from '../scheduling/week/index.ts';
+import { workspaceWeek } from '../scheduling/week/index.ts';
 import type { BookingRecord } from '../store/index.ts';
 import { addDays, type BusyInterval, type Interval, instantToZoned, zonedToInstant } from '../time/index.ts';
 import type { BookingService, BusyOf } from './book.ts';
+import { fairnessWeightsFor } from './fairness.ts';
 import { busyByOwner, type FeedSpec, type FeedsDeps, refreshFeeds } from './feeds.ts';
-import type { BookingStore, ChatUserProfile, DeliveryLog, FeedStateStore, RuleStore } from './ports.ts';
+import type {
+  BookingStore,
+  ChatUserProfile,
+  DeliveryLog,
+  FairnessLedger,
+  FeedStateStore,
+  RuleStore,
+} from './ports.ts';
 import { forgetRule, listRules, previewRule, type RuleDeps, saveRule } from './rules.ts';
 import type { SolvePool } from './solve-pool.ts';
-import { solve as solveInProcess } from './solve-worker.ts';
-import { nextIsoWeek, weekContext } from './week.ts';
+import {
+  diffWeekPlans,
+  nextIsoWeek,
+  type PlannedSession,
+  type PlanWorkspaceWeekOptions,
+  planWorkspaceWeek,
+  type WorkspaceWeekPlan,
+  weekContext,
+} from './week.ts';
+import { describeWeekLock, type LockedWeek, lockWeek, type WeekInvite } from './week-lock.ts';
+import { usualHoursOf, withWorkspaceRest } from './week-post.ts';
 import { fileBusy, workspaceContext } from './workspace.ts';
 
 /** A workspace person as the bot sees them. */
@@ -137,17 +159,74 @@ export interface FeedView {
 
 /** One placed session of a week plan. */
 export interface WeekSession {
+  /** Series name. */
   readonly series: string;
+  readonly seriesId: string;
   readonly start: number;
   readonly end: number;
+  /** Room name. */
   readonly room?: string;
+}
+
+/** How a session differs from the locked plan of the week before (same local weekday and time). */
+export interface WeekChange {
+  readonly series: string;
+  readonly change: 'moved' | 'added' | 'removed';
+  /** Last week's time moved onto the planned week. */
+  readonly before?: number;
+  readonly after?: number;
 }
 
 /** A week plan, or what could not be placed. */
 export interface WeekPlanView {
+  /** Monday `YYYY-MM-DD` of the planned week. */
   readonly weekOf: string;
+  readonly isoWeek: string;
   readonly sessions: readonly WeekSession[];
-  readonly unplaced: readonly { readonly series: string; readonly reason: string }[];
+  readonly unplaced: readonly {
+    readonly series: string;
+    readonly reason: string;
+    /** People, series and rooms in the way, in plain words. */
+    readonly blockers: readonly string[];
+  }[];
+  /** Preference cost of the plan (lower is better) and its non-zero parts. */
+  readonly cost: { readonly total: number; readonly parts: readonly ScorePart[] };
+  /** Changes against the locked plan of the week before; undefined when that week was not locked. */
+  readonly diff?: readonly WeekChange[];
+  /** The week already has a locked plan; locking this one re-books what changed. */
+  readonly relock: boolean;
+  /** Hands the plan to `lockWeek`; absent when the plan cannot be kept (no week plan store). */
+  readonly lockToken?: string;
+  readonly warnings: readonly string[];
+}
+
+/** Progress of a week plan being solved. */
+export interface WeekProgressView {
+  readonly elapsedMs: number;
+  /** Best preference cost so far. */
+  readonly best: number;
+  /** Series not placed yet. */
+  readonly unplaced: number;
+  readonly phase: WeekProgress['phase'];
+}
+
+/** Where one weekly invite went. */
+export interface WeekInviteView {
+  readonly series: string;
+  readonly method: 'REQUEST' | 'CANCEL';
+  readonly uid: string;
+  /** A path or address where the .ics can be picked up; absent when no outbox is wired. */
+  readonly where?: string;
+}
+
+/** What locking a week did, in plain words and as data. */
+export interface WeekLockView {
+  readonly isoWeek: string;
+  /** describeWeekLock's lines. */
+  readonly lines: readonly string[];
+  readonly booked: readonly (WeekSession & { readonly bookingId: string })[];
+  readonly pending: number;
+  readonly invites: readonly WeekInviteView[];
 }
 
 /** A recurring meeting definition, as listed. */
@@ -180,7 +259,18 @@ export interface SlotwrightService {
   addFeed(actor: ServicePerson, url: string, nowMs: number): Promise<Result<FeedView>>;
   feeds(actor: ServicePerson, nowMs: number): Promise<Result<readonly FeedView[]>>;
   series(actor: ServicePerson, text: string, nowMs: number): Promise<Result<readonly SeriesView[]>>;
-  week(actor: ServicePerson, weekOf: string | undefined, nowMs: number): Promise<Result<WeekPlanView>>;
+  /**
+   * Plans one week (`weekOf`: a date or `YYYY-Www`; default next week). `onProgress` hears how the
+   * search is going about once per `weekProgressMs`.
+   */
+  week(
+    actor: ServicePerson,
+    weekOf: string | undefined,
+    nowMs: number,
+    onProgress?: (p: WeekProgressView) => void,
+  ): Promise<Result<WeekPlanView>>;
+  /** Books a planned week (the token from `week`), keeps it as the week's locked plan and sends invites. */
+  lockWeek(actor: ServicePerson, token: string, nowMs: number): Promise<Result<WeekLockView>>;
   /** True the first time a delivery key is seen (see DeliveryLog). */
   claimDelivery(key: string, nowMs: number): Promise<boolean>;
 }
@@ -323,6 +413,43 @@ export interface ServiceOptions {
   readonly chatFeeds?: ChatFeedStore;
   /** Fetches feed URLs (the safe fetcher of src/calendar by default; tests pass a stub). @default fetchFeed */
   readonly fetchFeed?: FeedsDeps['fetch'];
+  /** Keeps week plans, so a Lock button works on any replica and a re-lock knows the last lock. @default undefined (no Lock button) */
+  readonly weekPlans?: WeekPlanStore;
+  /** Fairness history of off-hours sessions, recorded at each lock and weighed in each plan. @default undefined */
+  readonly fairness?: FairnessLedger;
+  /** Where weekly invites go. @default undefined (the lock reply lists them as not sent) */
+  readonly inviteOutbox?: InviteOutbox;
+  /** Domain of invite UIDs. @default 'slotwright.invalid' */
+  readonly inviteDomain?: string;
+  /** Search time of a week plan in ms. @default 5000 */
+  readonly weekTimeMs?: number;
+  /** Least time between two progress reports of a week plan, in ms. @default 1000 */
+  readonly weekProgressMs?: number;
+}
+
+/** Where week plans are kept (SqlWorkspaceStore implements it): proposals to lock and locked weeks. */
+export interface WeekPlanStore {
+  saveWeekPlan(p: {
+    readonly id: string;
+    readonly isoWeek: string;
+    readonly body: unknown;
+    readonly at: number;
+  }): Promise<void>;
+  weekPlans(isoWeek: string): Promise<readonly { readonly id: string; readonly body: unknown }[]>;
+}
+
+/** Takes one weekly invite and says where it can be picked up. */
+export type InviteOutbox = (isoWeek: string, invite: WeekInvite) => Promise<string>;
+
+/** An outbox that writes each invite to `<dir>/<isoWeek>/<uid>.ics` for download. */
+export function fileInviteOutbox(dir: string): InviteOutbox {
+  return async (isoWeek, invite) => {
+    const folder = join(dir, isoWeek);
+    await mkdir(folder, { recursive: true });
+    const file = join(folder, `${invite.uid.replace(/[^A-Za-z0-9._-]/g, '_')}.ics`);
+    await writeFile(file, invite.ics, 'utf8');
+    return file;
+  };
 }
 
 /** Where feeds added in chat are kept (SqlWorkspaceStore implements it, sealing the URLs). */
@@ -515,11 +642,15 @@ export class DefaultSlotwrightService implements SlotwrightService {
         return { ...p, rules: [...p.rules, ...extra] };
       }),
     );
-    const context: SchedulingContext = {
-      ...base.value,
-      people: people2,
-      warnings: [...(base.value.warnings ?? []), ...busy.value.warnings],
-    };
+    const context: SchedulingContext = withWorkspaceRest(
+      ws,
+      {
+        ...base.value,
+        people: people2,
+        warnings: [...(base.value.warnings ?? []), ...busy.value.warnings],
+      },
+      span,
+    );
     const request: MeetRequest = {
       with: people.value.required.map((p) => p.id),
       optional: people.value.optional.map((p) => p.id),
@@ -858,44 +989,258 @@ export class DefaultSlotwrightService implements SlotwrightService {
     };
   }
 
-  async week(
-    _actor: ServicePerson,
-    weekOf: string | undefined,
+  /** The week's scheduling context: file feeds, what is booked here, workspace rules and rest. */
+  async #weekContext(
+    isoWeek: string,
     nowMs: number,
-  ): Promise<Result<WeekPlanView>> {
+  ): Promise<{ context: SchedulingContext; window: Interval }> {
     const ws = this.#o.workspace;
-    if (ws.series.length === 0)
-      return failure('no_series', 'this workspace has no recurring meetings to plan');
-    const isoWeek = weekOf === undefined ? nextIsoWeek(nowMs, ws.zone) : isoWeekOf(weekOf);
     const monday = mondayOfIsoWeek(isoWeek);
     const window = {
       start: zonedToInstant(monday, 0, ws.zone) - DAY_MS,
       end: zonedToInstant(addDays(monday, 8), 0, ws.zone),
     };
-    const context = weekContext(ws, nowMs, window);
-    const task = { kind: 'workspace-week' as const, workspace: ws, context, isoWeek, now: nowMs };
-    const answer = this.#o.pool === undefined ? solveInProcess(task) : await this.#o.pool.run(task);
-    if (answer.kind !== 'workspace-week')
-      return failure('internal', 'the week plan came back in an unknown form');
-    const r = answer.outcome;
-    if (!r.ok) return r;
+    const base = weekContext(ws, nowMs, window);
+    // Bookings made here (earlier locks, meetings) are busy time too, except this week's own lock,
+    // which a re-lock replaces.
+    const ownLock = new Set((await this.#lockedWeek(isoWeek))?.sessions.map((x) => x.bookingId) ?? []);
+    const withBooked = async <T extends { id: string; busy: readonly BusyInterval[] }>(
+      x: T,
+      kind: 'person' | 'room',
+    ): Promise<T> => {
+      const booked = (await this.#o.bookingStore.listFor({ kind, id: x.id }, window, ['held', 'booked']))
+        .filter((b) => !ownLock.has(b.id))
+        .map((b) => ({ start: b.start, end: b.end, kind: 'busy' as const }));
+      return booked.length === 0
+        ? x
+        : { ...x, busy: [...x.busy, ...booked].sort((a, b) => a.start - b.start) };
+    };
+    const context: SchedulingContext = {
+      ...base,
+      people: await Promise.all(base.people.map((p) => withBooked(p, 'person'))),
+      rooms: await Promise.all(base.rooms.map((r) => withBooked(r, 'room'))),
+    };
+    return { context: withWorkspaceRest(ws, context, window), window };
+  }
+
+  async #lockedWeek(isoWeek: string): Promise<LockedWeek | undefined> {
+    const row = (await this.#o.weekPlans?.weekPlans(isoWeek))?.find((r) => r.id === `locked:${isoWeek}`);
+    const body = row?.body as { kind?: string; locked?: LockedWeek } | undefined;
+    return body?.kind === 'locked' ? body.locked : undefined;
+  }
+
+  /** Solves in a worker thread when progress is wanted or a pool is configured, so chat keeps answering. */
+  async #planWeek(
+    context: SchedulingContext,
+    options: Omit<PlanWorkspaceWeekOptions, 'clock' | 'onProgress'>,
+    onProgress?: (p: WeekProgressView) => void,
+  ): Promise<Result<WeekProposal>> {
+    const ws = this.#o.workspace;
+    if (onProgress === undefined && this.#o.pool === undefined) {
+      const r = planWorkspaceWeek(ws, context, { ...options, clock: () => performance.now() });
+      if (!r.ok) return r;
+      const { plan: _plan, ...proposal } = r.value;
+      return { ok: true, value: proposal };
+    }
+    return planWeekInWorker(ws, context, options, this.#o.weekProgressMs ?? 1000, onProgress);
+  }
+
+  async week(
+    _actor: ServicePerson,
+    weekOf: string | undefined,
+    nowMs: number,
+    onProgress?: (p: WeekProgressView) => void,
+  ): Promise<Result<WeekPlanView>> {
+    const ws = this.#o.workspace;
+    if (ws.series.length === 0)
+      return failure('no_series', 'this workspace has no recurring meetings to plan');
+    let isoWeek: string;
+    try {
+      isoWeek =
+        weekOf === undefined
+          ? nextIsoWeek(nowMs, ws.zone)
+          : /^\d{4}-W\d{2}$/.test(weekOf)
+            ? isoWeekOf(mondayOfIsoWeek(weekOf))
+            : isoWeekOf(weekOf);
+    } catch (error) {
+      return failure('date_unreadable', error instanceof Error ? error.message : String(error), ['weekOf']);
+    }
+    const before = isoWeekOf(addDays(mondayOfIsoWeek(isoWeek), -7));
+    const lastLocked = await this.#lockedWeek(before);
+    const { context } = await this.#weekContext(isoWeek, nowMs);
+    const offHoursWeights =
+      this.#o.fairness === undefined
+        ? undefined
+        : await fairnessWeightsFor(
+            this.#o.fairness,
+            ws.people.map((p) => p.id),
+            isoWeek,
+          );
+    const planned = await this.#planWeek(
+      context,
+      {
+        now: nowMs,
+        isoWeek,
+        timeMs: this.#o.weekTimeMs ?? 5000,
+        ...(offHoursWeights === undefined ? {} : { offHoursWeights }),
+        // Last week's locked sessions make moving a session cost something, so weeks stay alike.
+        ...(lastLocked === undefined
+          ? {}
+          : {
+              lastWeek: lastLocked.sessions.map((x) => ({ series: x.series, start: x.start, room: x.room })),
+            }),
+      },
+      onProgress,
+    );
+    if (!planned.ok) return planned;
+    const r = planned.value;
+    const nameOf = (id: string) => ws.series.find((x) => x.id === id)?.name ?? id;
+    const view = (x: PlannedSession): WeekSession => {
+      const room = x.room === null ? undefined : (ws.rooms.find((y) => y.id === x.room)?.name ?? x.room);
+      return {
+        series: nameOf(x.series),
+        seriesId: x.series,
+        start: x.start,
+        end: x.end,
+        ...(room === undefined ? {} : { room }),
+      };
+    };
+    const diff =
+      lastLocked === undefined
+        ? undefined
+        : diffWeekPlans(ws.zone, lastLocked.sessions, r.sessions)
+            .filter((d) => d.change !== 'kept')
+            .map(
+              (d): WeekChange => ({
+                series: nameOf(d.series),
+                change: d.change as WeekChange['change'],
+                ...(d.before === undefined ? {} : { before: d.before.start }),
+                ...(d.after === undefined ? {} : { after: d.after.start }),
+              }),
+            );
+    let lockToken: string | undefined;
+    if (this.#o.weekPlans !== undefined) {
+      lockToken = this.#newId();
+      await this.#o.weekPlans.saveWeekPlan({
+        id: `proposal:${lockToken}`,
+        isoWeek,
+        at: nowMs,
+        body: { kind: 'proposal', isoWeek, sessions: r.sessions, unplaced: r.unplaced, score: r.score },
+      });
+    }
+    const parts = Object.entries(r.score.parts)
+      .filter(([, v]) => v !== 0)
+      .map(([k, v]) => ({ label: SCORE_LABELS[k] ?? k, points: v }));
+    return {
+      ok: true,
+      value: {
+        weekOf: mondayOfIsoWeek(isoWeek),
+        isoWeek,
+        sessions: r.sessions.map(view),
+        unplaced: r.unplaced.map((u) => ({
+          series: nameOf(u.series),
+          reason: u.reason,
+          blockers: u.blockers.map((b) => blockerWords(b, ws)),
+        })),
+        cost: { total: r.score.total, parts },
+        ...(diff === undefined ? {} : { diff }),
+        relock: (await this.#lockedWeek(isoWeek)) !== undefined,
+        ...(lockToken === undefined ? {} : { lockToken: `${isoWeek}:${lockToken}` }),
+        warnings: [...(context.warnings ?? [])].slice(0, 5),
+      },
+    };
+  }
+
+  async lockWeek(actor: ServicePerson, token: string, nowMs: number): Promise<Result<WeekLockView>> {
+    const ws = this.#o.workspace;
+    const store = this.#o.weekPlans;
+    if (store === undefined) return notAvailable('locking a week plan');
+    if (!actor.admin)
+      return failure('unauthorized', 'only a workspace admin locks a week plan; ask an admin', ['actor']);
+    const m = /^(\d{4}-W\d{2}):(.+)$/.exec(token);
+    const row =
+      m === null ? undefined : (await store.weekPlans(m[1]!)).find((x) => x.id === `proposal:${m[2]}`);
+    const body = row?.body as
+      | {
+          kind: 'proposal';
+          isoWeek: string;
+          sessions: PlannedSession[];
+          unplaced: WorkspaceWeekPlan['unplaced'];
+        }
+      | undefined;
+    if (m === null || body?.kind !== 'proposal')
+      return failure('not_found', "that week plan is gone; ask for it again with 'week'", ['token']);
+    const isoWeek = body.isoWeek;
+    const { context } = await this.#weekContext(isoWeek, nowMs);
+    // The engine's model of the week is rebuilt here (no solving) so the lock can re-plan what was taken.
+    const built = workspaceWeek({ context, series: ws.series, settings: ws.weekPlan, isoWeek });
+    if (!built.ok) return built;
+    if (nowMs >= built.value.window.end)
+      return failure('week_over', `${isoWeek} is already over; plan a later week`, ['token']);
+    const plan = {
+      isoWeek,
+      sessions: body.sessions,
+      unplaced: body.unplaced,
+      week: built.value,
+    } as unknown as WorkspaceWeekPlan;
+    const previous = await this.#lockedWeek(isoWeek);
+    const outcome = await lockWeek(
+      {
+        booking: this.#o.bookings,
+        store: this.#o.bookingStore,
+        now: () => nowMs,
+        clock: () => performance.now(),
+        ...(this.#o.fairness === undefined
+          ? {}
+          : { fairness: { ledger: this.#o.fairness, usual: usualHoursOf(ws) } }),
+      },
+      ws,
+      context,
+      plan,
+      {
+        actor: actor.id,
+        domain: this.#o.inviteDomain ?? 'slotwright.invalid',
+        ...(previous === undefined ? {} : { previous }),
+      },
+    );
+    await store.saveWeekPlan({
+      id: `locked:${isoWeek}`,
+      isoWeek,
+      at: nowMs,
+      body: { kind: 'locked', locked: outcome.locked, by: actor.id },
+    });
+    const outbox = this.#o.inviteOutbox;
+    const invites: WeekInviteView[] = [];
+    for (const i of outcome.invites) {
+      const where = outbox === undefined ? undefined : await outbox(isoWeek, i);
+      invites.push({
+        series: ws.series.find((x) => x.id === i.series)?.name ?? i.series,
+        method: i.method,
+        uid: i.uid,
+        ...(where === undefined ? {} : { where }),
+      });
+    }
     const nameOf = (id: string) => ws.series.find((x) => x.id === id)?.name ?? id;
     const roomName = (id: string | null) =>
       id === null ? undefined : (ws.rooms.find((x) => x.id === id)?.name ?? id);
     return {
       ok: true,
       value: {
-        weekOf: mondayOfIsoWeek(r.value.isoWeek),
-        sessions: r.value.sessions.map((x) => {
+        isoWeek,
+        lines: describeWeekLock(outcome, ws.zone),
+        booked: outcome.locked.sessions.map((x) => {
           const room = roomName(x.room);
           return {
             series: nameOf(x.series),
+            seriesId: x.series,
             start: x.start,
             end: x.end,
+            bookingId: x.bookingId,
             ...(room === undefined ? {} : { room }),
           };
         }),
-        unplaced: r.value.unplaced.map((u) => ({ series: nameOf(u.series), reason: u.reason })),
+        pending: outcome.pending.length,
+        invites,
       },
     };
   }
@@ -969,4 +1314,101 @@ export function directoryOf(workspace: Workspace): PeopleDirectory {
 /** A copy without keys whose value is undefined (schema output to exact optional types). */
 function withoutUndefined<T extends object>(o: T): T {
   return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
+}
+
+/** A week plan as the solve returns it: everything but the search state. */
+type WeekProposal = Omit<WorkspaceWeekPlan, 'plan'>;
+
+/** Plain words for the week plan's score parts (preference costs). */
+const SCORE_LABELS: Readonly<Record<string, string>> = {
+  spread: 'sessions on too few days',
+  isolated: 'lone meetings in a day',
+  roomStability: 'room changes',
+  preferredDays: 'outside preferred days',
+  preferredHours: 'outside preferred hours',
+  usualHours: 'outside usual hours',
+  moves: 'moved from last week',
+  seats: 'seats short',
+  rules: 'preferences of people',
+};
+
+function blockerWords(b: WorkspaceWeekPlan['unplaced'][number]['blockers'][number], ws: Workspace): string {
+  switch (b.kind) {
+    case 'attendee':
+      return `${ws.people.find((p) => p.id === b.id)?.name ?? b.id}'s free time`;
+    case 'series':
+      return `series ${ws.series.find((x) => x.id === b.id)?.name ?? b.id}`;
+    case 'rooms':
+      return 'the rooms that fit';
+    case 'series-hours':
+      return "the series' allowed days and hours";
+  }
+}
+
+// Runs in a worker thread: loads the TypeScript modules, plans, and posts throttled progress.
+const WEEK_WORKER_SOURCE = `
+const { parentPort, workerData } = require('node:worker_threads');
+(async () => {
+  // The solve pool's entry registers the TypeScript loader for this thread.
+  await import(workerData.entry);
+  const { planWorkspaceWeek } = await import(workerData.week);
+  let last = -Infinity;
+  const r = planWorkspaceWeek(workerData.workspace, workerData.context, {
+    ...workerData.options,
+    clock: () => performance.now(),
+    onProgress: (p) => {
+      if (p.elapsedMs - last < workerData.everyMs) return;
+      last = p.elapsedMs;
+      parentPort.postMessage({ kind: 'progress', progress: p });
+    },
+  });
+  if (r.ok) {
+    const { plan: _plan, ...value } = r.value;
+    parentPort.postMessage({ kind: 'done', result: { ok: true, value } });
+  } else parentPort.postMessage({ kind: 'done', result: r });
+})().catch((e) => parentPort.postMessage({ kind: 'error', message: String((e && e.stack) || e) }));
+`;
+
+/** Plans a week on its own worker thread, passing progress reports on as they arrive. */
+function planWeekInWorker(
+  workspace: Workspace,
+  context: SchedulingContext,
+  options: Omit<PlanWorkspaceWeekOptions, 'clock' | 'onProgress'>,
+  everyMs: number,
+  onProgress?: (p: WeekProgressView) => void,
+): Promise<Result<WeekProposal>> {
+  const entry = new URL('./solve-worker.mjs', import.meta.url).href;
+  const week = new URL('./week.ts', import.meta.url).href;
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(WEEK_WORKER_SOURCE, {
+      eval: true,
+      workerData: { entry, week, workspace, context, options, everyMs },
+    });
+    let settled = false;
+    worker.on(
+      'message',
+      (m: { kind: string; progress?: WeekProgress; result?: Result<WeekProposal>; message?: string }) => {
+        if (m.kind === 'progress' && m.progress !== undefined) {
+          const p = m.progress;
+          onProgress?.({ elapsedMs: p.elapsedMs, best: p.best, unplaced: p.unplaced, phase: p.phase });
+        } else if (m.kind === 'done' && m.result !== undefined) {
+          settled = true;
+          resolve(m.result);
+          void worker.terminate();
+        } else if (m.kind === 'error') {
+          settled = true;
+          reject(new SlotwrightError('internal', `planning the week failed: ${m.message ?? 'unknown'}`));
+          void worker.terminate();
+        }
+      },
+    );
+    worker.on('error', (error) => {
+      if (settled) return;
+      settled = true;
+      reject(new SlotwrightError('internal', `planning the week failed: ${error.message}`, { cause: error }));
+    });
+    worker.on('exit', (code) => {
+      if (!settled) reject(new SlotwrightError('internal', `the week plan worker stopped (exit ${code})`));
+    });
+  });
 }

@@ -12,7 +12,10 @@ import {
   type WeekPostRequest,
   type WeekPostSettings,
 } from '../jobs/index.ts';
+import { type RestSettings, withRestEffects } from '../rules/index.ts';
 import type { UsualHours } from '../scheduling/fairness.ts';
+import type { SchedulingContext } from '../scheduling/types.ts';
+import type { Interval } from '../time/interval.ts';
 import { zonedToInstant } from '../time/zoned.ts';
 import { fairnessWeightsFor } from './fairness.ts';
 import type { ChatTransport, FairnessLedger } from './ports.ts';
@@ -46,6 +49,25 @@ export function usualHoursOf(workspace: Workspace): Record<string, UsualHours> {
   return Object.fromEntries(workspace.people.map((p) => [p.id, { zone: p.zone, hours: p.workingHours }]));
 }
 
+/** Rest-between-days settings of a workspace, as withRestEffects takes them. */
+export function restSettingsOf(workspace: Workspace): {
+  workspace?: RestSettings;
+  people: Record<string, RestSettings>;
+} {
+  const people: Record<string, RestSettings> = {};
+  for (const p of workspace.people) if (p.rest !== undefined) people[p.id] = p.rest;
+  return { ...(workspace.rest === undefined ? {} : { workspace: workspace.rest }), people };
+}
+
+/** A scheduling context with each person's rest between days added (when the workspace sets any). */
+export function withWorkspaceRest(
+  workspace: Workspace,
+  context: SchedulingContext,
+  window: Interval,
+): SchedulingContext {
+  return { ...context, people: withRestEffects(context.people, restSettingsOf(workspace), window) };
+}
+
 /** A plain-text rendering of a week plan: one line per session, on the workspace clock. */
 export function weekPlanMessage(plan: WorkspaceWeekPlan, workspace: Workspace): WeekPostMessage {
   const zone = workspace.zone;
@@ -76,7 +98,7 @@ export function createWeekPlanPoster(deps: WeekPostDeps): WeekPlanPoster {
       // A day of margin each side: sessions are read on several zones' calendars.
       const window = { start: monday - 86_400_000, end: monday + 8 * 86_400_000 };
       const now = deps.now();
-      const context = weekContext(workspace, now, window);
+      const context = withWorkspaceRest(workspace, weekContext(workspace, now, window), window);
       const people = workspace.people.map((p) => p.id);
       const offHoursWeights =
         deps.fairness === undefined

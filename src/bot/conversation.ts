@@ -6,6 +6,9 @@ import type {
   MeetQuery,
   ServicePerson,
   SlotwrightService,
+  WeekLockView,
+  WeekPlanView,
+  WeekProgressView,
 } from '../app/service.ts';
 import type { Issue, Result } from '../errors.ts';
 import { CHAT_VERBS, type ChatIntent, parseChatCommand } from './parse-command.ts';
@@ -22,7 +25,7 @@ const HELP: Readonly<Record<string, string>> = {
   feed: 'feed <https address of an .ics calendar>: adds a calendar feed of yours',
   feeds: 'feeds: lists your calendar feeds and how fresh they are',
   series: 'series: lists the recurring meetings the week plan places',
-  week: 'week [YYYY-MM-DD]: the week plan for the week holding that date (default: next week)',
+  week: 'week [next | 2026-W50 | YYYY-MM-DD]: plans the recurring meetings of that week (default: next week); an admin can lock it, which books every session',
   why: "why: explains what blocked your last 'meet' request",
   help: 'help [verb]: this list, or one verb in detail',
 };
@@ -149,34 +152,21 @@ export class Conversation {
           ],
         };
       }
-      case 'week': {
-        const r = await s.week(actor, intent.weekOf, nowMs);
-        if (!r.ok) return issuesReply('I could not plan the week.', r.issues);
-        const w = r.value;
-        const blocks: ReplyBlock[] = [{ kind: 'heading', text: `Week plan for the week of ${w.weekOf}` }];
-        if (w.sessions.length > 0)
-          blocks.push({
-            kind: 'list',
-            items: w.sessions.map((x) => [
-              { kind: 'strong', text: x.series },
-              ' ',
-              { kind: 'time', start: x.start, end: x.end },
-              x.room === undefined ? '' : ` in ${x.room}`,
-            ]),
-          });
-        if (w.unplaced.length > 0) {
-          blocks.push({ kind: 'text', spans: ['Could not place:'] });
-          blocks.push({
-            kind: 'list',
-            items: w.unplaced.map((u) => [{ kind: 'strong', text: u.series }, `: ${u.reason}`]),
-          });
-        }
-        return {
-          summary: `Week plan: ${w.sessions.length} session(s), ${w.unplaced.length} not placed`,
-          blocks,
-        };
-      }
+      case 'week':
+        return this.week(actor, intent.weekOf, nowMs);
     }
+  }
+
+  /** Plans a week; `onProgress` hears how the search goes (for updating a "working" note). */
+  async week(
+    actor: ServicePerson,
+    weekOf: string | undefined,
+    nowMs: number,
+    onProgress?: (p: WeekProgressView) => void,
+  ): Promise<Reply> {
+    const r = await this.#service.week(actor, weekOf, nowMs, onProgress);
+    if (!r.ok) return issuesReply('I could not plan the week.', r.issues);
+    return weekReply(r.value, actor.admin);
   }
 
   /** Answers a meeting request. */
@@ -211,6 +201,10 @@ export class Conversation {
               `: ${r.value.text}`,
             ])
           : issuesReply('The rule was not saved.', r.issues);
+      }
+      case ACTION.lockWeek: {
+        const r = await s.lockWeek(actor, value, nowMs);
+        return r.ok ? lockReply(r.value) : issuesReply('The week was not locked.', r.issues);
       }
       case ACTION.tryRelaxation: {
         let query: MeetQuery;
@@ -442,4 +436,128 @@ function feedLine(f: FeedView): Span[] {
   if (f.fetchedAt !== undefined) spans.push(' (read ', { kind: 'time', start: f.fetchedAt }, ')');
   if (f.note !== undefined) spans.push(` · ${f.note}`);
   return spans;
+}
+
+/** The "working" note of a week plan, updated while the search runs. */
+export function weekProgressReply(p: WeekProgressView): Reply {
+  const seconds = (p.elapsedMs / 1000).toFixed(1);
+  const best = Number.isFinite(p.best)
+    ? `best cost so far ${Math.round(p.best * 10) / 10}`
+    : 'placing sessions';
+  const left = p.unplaced > 0 ? `, ${p.unplaced} series not placed yet` : '';
+  return textReply(`Planning the week… ${seconds} s, ${best}${left}`);
+}
+
+function when(ms: number | undefined): Span {
+  return ms === undefined ? 'no time' : { kind: 'time', start: ms };
+}
+
+/** A week plan: one line per session (each viewer's zone), the cost parts, what is left out, the diff and a Lock button. */
+export function weekReply(w: WeekPlanView, canLock: boolean): Reply {
+  const blocks: ReplyBlock[] = [
+    { kind: 'heading', text: `Week plan for ${w.isoWeek} (week of ${w.weekOf})` },
+  ];
+  if (w.sessions.length > 0)
+    blocks.push({
+      kind: 'list',
+      items: w.sessions.map((x) => [
+        { kind: 'time', start: x.start, end: x.end },
+        ' ',
+        { kind: 'strong', text: x.series },
+        x.room === undefined ? '' : ` in ${x.room}`,
+      ]),
+    });
+  else blocks.push({ kind: 'text', spans: ['No session could be placed.'] });
+  const cost = Math.round(w.cost.total * 10) / 10;
+  blocks.push({
+    kind: 'note',
+    spans: [
+      w.cost.parts.length === 0
+        ? `cost ${cost} (lower is better): every preference met`
+        : `cost ${cost} (lower is better): ${w.cost.parts.map((p) => `${p.label} ${Math.round(p.points * 10) / 10}`).join('; ')}`,
+    ],
+  });
+  if (w.unplaced.length > 0) {
+    blocks.push({ kind: 'text', spans: ['Could not place:'] });
+    blocks.push({
+      kind: 'list',
+      items: w.unplaced.map((u) => [
+        { kind: 'strong', text: u.series },
+        `: ${u.reason}${u.blockers.length === 0 ? '' : ` (in the way: ${u.blockers.join(', ')})`}`,
+      ]),
+    });
+  }
+  if (w.diff === undefined)
+    blocks.push({
+      kind: 'note',
+      spans: ['The week before was not locked, so there is nothing to compare with.'],
+    });
+  else if (w.diff.length === 0)
+    blocks.push({ kind: 'note', spans: ['Same times as the locked week before.'] });
+  else {
+    blocks.push({ kind: 'text', spans: ['Changes against the locked week before:'] });
+    blocks.push({
+      kind: 'list',
+      items: w.diff.map((d): Span[] =>
+        d.change === 'moved'
+          ? [{ kind: 'strong', text: d.series }, ': moved from ', when(d.before), ' to ', when(d.after)]
+          : d.change === 'added'
+            ? [{ kind: 'strong', text: d.series }, ': new session ', when(d.after)]
+            : [{ kind: 'strong', text: d.series }, ': no session at ', when(d.before)],
+      ),
+    });
+  }
+  if (w.warnings.length > 0) blocks.push({ kind: 'note', spans: [w.warnings.join(' · ')] });
+  if (w.lockToken !== undefined && canLock && w.sessions.length > 0) {
+    blocks.push({
+      kind: 'actions',
+      actions: [
+        {
+          id: ACTION.lockWeek,
+          label: w.relock ? 'Lock again (re-books what changed)' : 'Lock this week (books every session)',
+          value: w.lockToken,
+          style: 'primary',
+        },
+      ],
+    });
+  } else if (w.lockToken !== undefined && w.sessions.length > 0) {
+    blocks.push({ kind: 'note', spans: ['An admin can lock this plan, which books every session.'] });
+  }
+  return {
+    summary: `Week plan ${w.isoWeek}: ${w.sessions.length} session(s), ${w.unplaced.length} series not placed`,
+    blocks,
+  };
+}
+
+/** What a lock did: describeWeekLock's lines, the booked sessions and where the invites went. */
+export function lockReply(v: WeekLockView): Reply {
+  const [first, ...rest] = v.lines;
+  const blocks: ReplyBlock[] = [
+    { kind: 'text', spans: [{ kind: 'strong', text: first ?? `${v.isoWeek} locked` }] },
+  ];
+  if (v.booked.length > 0)
+    blocks.push({
+      kind: 'list',
+      items: v.booked.map((b) => [
+        { kind: 'time', start: b.start, end: b.end },
+        ' ',
+        { kind: 'strong', text: b.series },
+        b.room === undefined ? '' : ` in ${b.room}`,
+        ' · booked ',
+        { kind: 'code', text: b.bookingId },
+      ]),
+    });
+  if (rest.length > 0) blocks.push({ kind: 'list', items: rest.map((l) => [l]) });
+  if (v.invites.length > 0) {
+    const written = v.invites.filter((i) => i.where !== undefined);
+    blocks.push({
+      kind: 'note',
+      spans: [
+        written.length === v.invites.length
+          ? `${v.invites.length} weekly invite(s) (RRULE FREQ=WEEKLY) written for download: ${written.map((i) => `${i.method} ${i.where}`).join(', ')}`
+          : `${v.invites.length} weekly invite(s) made but not sent (no invite outbox is configured): ${v.invites.map((i) => `${i.method} ${i.uid}`).join(', ')}`,
+      ],
+    });
+  }
+  return { summary: first ?? `${v.isoWeek} locked`, blocks };
 }

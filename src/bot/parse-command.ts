@@ -105,14 +105,16 @@ export function parseChatCommand(text: string, context: ParseContext): Result<Ch
     case 'series':
       return ok({ verb: 'series', text: rest });
     case 'week': {
-      if (rest === '') return ok({ verb: 'week' });
+      if (rest === '' || rest.toLowerCase() === 'next') return ok({ verb: 'week' });
       const date = rest.replace(/^of\s+/, '');
+      if (/^\d{4}-W(0[1-9]|[1-4]\d|5[0-3])$/i.test(date))
+        return ok({ verb: 'week', weekOf: date.toUpperCase() });
       return DATE.test(date) && validDate(date)
         ? ok({ verb: 'week', weekOf: date })
         : bad(
             'date_unreadable',
             ['weekOf'],
-            `'${rest}' is not a date; write it as YYYY-MM-DD, e.g. 'week 2026-12-07'`,
+            `'${rest}' is not a week; write 'next', an ISO week such as 2026-W50, or a date such as 2026-12-07`,
           );
     }
     case 'why':

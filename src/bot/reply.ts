@@ -47,6 +47,7 @@ export const ACTION = {
   confirmRule: 'slot_confirm_rule',
   tryRelaxation: 'slot_try_relaxation',
   openRequest: 'slot_open_request',
+  lockWeek: 'slot_lock_week',
 } as const;
 
 /** Callback id of the new-request modal. */

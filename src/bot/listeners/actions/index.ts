@@ -5,6 +5,7 @@ import { bookOption } from './book-option.ts';
 import { cancelBooking } from './cancel-booking.ts';
 import { confirmRule } from './confirm-rule.ts';
 import { holdOption } from './hold-option.ts';
+import { lockWeekPlan } from './lock-week.ts';
 import { openRequest } from './open-request.ts';
 import { tryRelaxation } from './try-relaxation.ts';
 
@@ -21,4 +22,5 @@ export function registerActions(app: App, deps: BotDeps): void {
   app.action(id(ACTION.confirmRule), confirmRule(deps));
   app.action(id(ACTION.tryRelaxation), tryRelaxation(deps));
   app.action(id(ACTION.openRequest), openRequest(deps));
+  app.action(id(ACTION.lockWeek), lockWeekPlan(deps));
 }
