@@ -1,30 +1,13 @@
 import { Temporal } from 'temporal-polyfill';
-import { z } from 'zod';
-import { SlotwrightError } from '../errors.ts';
-import { isValidZone } from '../time/zoned.ts';
+import type { WeekPostTime } from '../config/week-post-schema.ts';
 
-/** When the week plan is posted: an ISO weekday and a local clock time. */
-export interface WeekPostTime {
-  /** ISO weekday, 1 = Monday .. 7 = Sunday. */
-  readonly weekday: number;
-  /** Minutes since local midnight. */
-  readonly minutes: number;
-}
-
-const DAYS = ['mon', 'tue', 'wed', 'thu', 'fri', 'sat', 'sun'] as const;
-
-/** Reads "fri 14:00" (a weekday name and a 24-hour time); throws a config error naming the fix. */
-export function parseWeekPostTime(text: string): WeekPostTime {
-  const m = /^\s*(mon|tue|wed|thu|fri|sat|sun)[a-z]*\s+([01]\d|2[0-3]):([0-5]\d)\s*$/i.exec(text);
-  const day = m === null ? -1 : DAYS.indexOf(m[1]!.toLowerCase() as (typeof DAYS)[number]);
-  if (m === null || day < 0) {
-    throw new SlotwrightError(
-      'config_invalid',
-      `weekPlan.post '${text}' is not a weekday and a time; write it like "fri 14:00"`,
-    );
-  }
-  return { weekday: day + 1, minutes: Number(m[2]) * 60 + Number(m[3]) };
-}
+// The pure schema and parser live with the workspace config; the job keeps exporting them.
+export {
+  parseWeekPostTime,
+  type WeekPostSettings,
+  type WeekPostTime,
+  weekPostSettingsSchema,
+} from '../config/week-post-schema.ts';
 
 /** The 5-field cron expression node-cron runs for a post time ("0 14 * * 5" for Friday 14:00). */
 export function weekPostCron(time: WeekPostTime): string {
@@ -63,34 +46,3 @@ export function weekAnnouncedAt(firedAt: number, zone: string): { isoWeek: strin
     weekStart: monday.toString(),
   };
 }
-
-/** `weekPlan` post settings of a workspace: when, in which channel, on which clock. */
-export const weekPostSettingsSchema = z
-  .object({
-    post: z
-      .string()
-      .refine(
-        (s) => {
-          try {
-            parseWeekPostTime(s);
-            return true;
-          } catch {
-            return false;
-          }
-        },
-        { message: 'write the post time as a weekday and a 24-hour time, for example "fri 14:00"' },
-      )
-      .describe('When next week\'s plan is posted, e.g. "fri 14:00", on the clock of `zone`.'),
-    channel: z
-      .string()
-      .regex(/^[A-Z0-9]{5,}$/, { message: 'a channel id such as C0123ABCD (the id, not the #name)' })
-      .describe('Chat channel id the plan is posted to.'),
-    zone: z
-      .string()
-      .refine(isValidZone, { message: 'an IANA zone such as Europe/Lisbon' })
-      .describe('IANA zone whose wall clock the post time is read on.'),
-  })
-  .strict();
-
-/** Validated week-plan post settings. */
-export type WeekPostSettings = z.infer<typeof weekPostSettingsSchema>;

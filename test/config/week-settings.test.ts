@@ -82,7 +82,7 @@ describe('weekPlan post settings and rest in workspace.yaml', () => {
     expect(r.value.rest).toBeUndefined();
   });
 
-  it('config and jobs read the post time with one parser: Friday 14:00 is cron 0 14 * * 5', () => {
+  it("jobs export the config's parser and schema (one parser): Friday 14:00 is cron 0 14 * * 5", () => {
     expect(jobs.parseWeekPostTime).toBe(parseWeekPostTime);
     expect(jobs.weekPostSettingsSchema).toBe(weekPostSettingsSchema);
     // ISO weekday 5 = Friday (ISO 8601); cron counts Sunday as 0 (common practice).
