@@ -3,6 +3,7 @@ import type { Result } from '../errors.ts';
 import { findOptions, type MeetOutcome, WIDEN_DAYS } from '../scheduling/index.ts';
 import type { Interval } from '../time/index.ts';
 import type { BusyOf } from './book.ts';
+import { withWorkspaceRest } from './week-post.ts';
 import { type StaleFeed, workspaceContext } from './workspace.ts';
 
 const DAY_MS = 86_400_000;
@@ -54,7 +55,9 @@ export async function meet(
     ...(options.stale === undefined ? {} : { stale: options.stale }),
   });
   if (!context.ok) return context;
-  return findOptions(context.value, {
+  // Rest between days (workspace.yaml `rest:`) joins each person's rules over the span read.
+  const rested = withWorkspaceRest(workspace, context.value, span);
+  return findOptions(rested, {
     with: ask.with,
     optional: ask.optional ?? [],
     lengthMinutes: ask.lengthMinutes,

@@ -131,3 +131,23 @@ describe('rest between days set in workspace.yaml reaches meet and the week plan
     expect(plain.value.sessions[0]!.start).toBeLessThan(Date.parse('2026-12-08T11:00:00Z'));
   });
 });
+
+describe('rest between days in the meet use case the CLI calls', () => {
+  it('keeps Tuesday before 11:00 free of options after the late call under 13 hours of rest', async () => {
+    const { meet } = await import('../../src/app/meet.ts');
+    const { loadWorkspace } = await import('../../src/config/load-workspace.ts');
+    const window = { start: Date.parse('2026-12-08T00:00:00Z'), end: Date.parse('2026-12-09T00:00:00Z') };
+    const ask = { with: ['ines', 'rui'], lengthMinutes: 30, window, options: 50 };
+    for (const [rest, earliest] of [
+      ['', Date.parse('2026-12-08T09:00:00Z')],
+      ['rest: {hours: 13}\n', Date.parse('2026-12-08T11:00:00Z')],
+    ] as const) {
+      const ws = loadWorkspace(workspace(rest, false), { now: NOW });
+      if (!ws.ok) throw new Error(JSON.stringify(ws.issues));
+      const r = await meet(ws.value, ask, { now: NOW });
+      if (!r.ok) throw new Error(JSON.stringify(r.issues));
+      // Working hours 09:00-17:00 Lisbon (UTC+0); 13 h after Monday 22:00 UTC is Tuesday 11:00 UTC.
+      expect(Math.min(...r.value.options.map((o) => o.start))).toBe(earliest);
+    }
+  });
+});
