@@ -102,6 +102,23 @@ describe('chat command parser', () => {
       ok: true,
       value: { verb: 'week', weekOf: '2026-12-07' },
     });
+    expect(parseChatCommand('week next', ctx)).toEqual({ ok: true, value: { verb: 'week' } });
+    // ISO 8601 week notation YYYY-Www.
+    expect(parseChatCommand('week 2026-w50', ctx)).toEqual({
+      ok: true,
+      value: { verb: 'week', weekOf: '2026-W50' },
+    });
+    expect(parseChatCommand('week 2026-W54', ctx)).toEqual({
+      ok: false,
+      issues: [
+        {
+          code: 'date_unreadable',
+          path: ['weekOf'],
+          message:
+            "'2026-W54' is not a week; write 'next', an ISO week such as 2026-W50, or a date such as 2026-12-07",
+        },
+      ],
+    });
     expect(parseChatCommand('WHY', ctx)).toEqual({ ok: true, value: { verb: 'why' } });
     expect(parseChatCommand('', ctx)).toEqual({ ok: true, value: { verb: 'help' } });
     expect(parseChatCommand('book 1', ctx)).toMatchObject({ ok: false, issues: [{ code: 'verb_unknown' }] });
