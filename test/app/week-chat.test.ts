@@ -173,19 +173,30 @@ describe('week plan through the service: plan with progress, lock, re-lock', () 
     const relock = await s.lockWeek(ines, again.value.lockToken!, NOW);
     if (!relock.ok) throw new Error(JSON.stringify(relock.issues));
     expect(relock.value.lines[0]).toBe('2026-W50: 3 of 3 sessions booked (times in Europe/Lisbon).');
-    const kept = relock.value.booked.filter((b) => v.booked.some((x) => x.bookingId === b.bookingId));
+    const keptBookings = relock.value.booked.filter((b) => v.booked.some((x) => x.bookingId === b.bookingId));
     const sameTimes = again.value.sessions.filter((x) =>
       v.booked.some((b) => b.seriesId === x.seriesId && b.start === x.start),
     );
     // Every session at an unchanged time keeps its booking (the previous lock is passed on).
-    expect(kept.length).toBe(sameTimes.length);
+    expect(keptBookings.length).toBe(sameTimes.length);
     const list = await s.upcoming(s.person('rui')!, NOW);
     expect(list.ok && list.value.filter((b) => b.state === 'booked')).toHaveLength(3);
 
     // The next week compares with this locked week.
     const next = await s.week(ines, '2026-W51', NOW);
     if (!next.ok) throw new Error(JSON.stringify(next.issues));
-    expect(next.value.diff).toBeDefined();
+    const diff = next.value.diff!;
+    // Lisbon stays on UTC+0 between the two weeks (IANA tz database), so "same local time" is +7 days.
+    const week = 7 * 86_400_000;
+    const lockedNow = relock.value.booked;
+    const kept = next.value.sessions.filter((x) =>
+      lockedNow.some((b) => b.seriesId === x.seriesId && b.start + week === x.start),
+    );
+    const changedAfter = diff.filter((d) => d.after !== undefined).map((d) => d.after);
+    expect(kept.length + changedAfter.length).toBe(next.value.sessions.length);
+    for (const d of diff) {
+      if (d.change === 'moved') expect(d.after).not.toBe(d.before! + week);
+    }
   });
 
   it('records fairness history at a lock: a row per attendee for the locked week', async () => {
