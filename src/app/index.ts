@@ -57,12 +57,14 @@ export {
 } from './week-lock.ts';
 export {
   createWeekPlanPoster,
+  restSettingsOf,
   startWeekPlanPosting,
   usualHoursOf,
   type WeekPostCoordination,
   type WeekPostDeps,
   type WeekPostMessage,
   weekPlanMessage,
+  withWorkspaceRest,
 } from './week-post.ts';
 export {
   fileBusy,
