@@ -151,3 +151,27 @@ describe('rest between days in the meet use case the CLI calls', () => {
     }
   });
 });
+
+describe('rest between days in the week verb of the CLI', () => {
+  it('places the Tuesday one-to-one at 11:00 or later under 13 hours of rest, before 11:00 without', async () => {
+    const { runCli } = await import('../../src/cli/main.ts');
+    const plan = async (rest: string) => {
+      const out: string[] = [];
+      const io = { out: (t: string) => out.push(t), err: () => {}, env: {}, isTty: false, now: () => NOW };
+      const args = ['week', '--workspace', workspace(rest, false), '--week', '2026-W50', '--seed', '1'];
+      const code = await runCli(
+        [...args, '--seconds', '1', '--now', new Date(NOW).toISOString(), '--json'],
+        io,
+      );
+      expect(code).toBe(0);
+      return JSON.parse(out.join('\n')) as { sessions: { start: string }[] };
+    };
+    const plain = await plan('');
+    const rested = await plan('rest: {hours: 13}\n');
+    expect(plain.sessions).toHaveLength(1);
+    expect(rested.sessions).toHaveLength(1);
+    // Monday 22:00 UTC + 13 h = Tuesday 11:00 UTC.
+    expect(Date.parse(plain.sessions[0]!.start)).toBeLessThan(Date.parse('2026-12-08T11:00:00Z'));
+    expect(Date.parse(rested.sessions[0]!.start)).toBeGreaterThanOrEqual(Date.parse('2026-12-08T11:00:00Z'));
+  });
+});

@@ -9,6 +9,7 @@ import {
   weekContext,
   weekPlanIcs,
 } from '../../app/week.ts';
+import { withWorkspaceRest } from '../../app/week-post.ts';
 import { loadWorkspace } from '../../config/load-workspace.ts';
 import { SlotwrightError } from '../../errors.ts';
 import { mondayOfIsoWeek } from '../../scheduling/fairness.ts';
@@ -134,7 +135,8 @@ export const command: CliCommand = {
       start: zonedToInstant(addDays(monday, -1), 0, workspace.zone),
       end: zonedToInstant(addDays(monday, 8), 0, workspace.zone),
     };
-    const context = weekContext(workspace, now, window);
+    // rest between days, when the workspace or a person sets it, as in chat and the weekly post
+    const context = withWorkspaceRest(workspace, weekContext(workspace, now, window), window);
     let lastShown = -1;
     const started = io.now();
     const result = planWorkspaceWeek(workspace, context, {
