@@ -22,6 +22,7 @@ import { startWeekPlanPosting, type WeekPostCoordination } from './app/week-post
 import { runConsole } from './bot/console.ts';
 import { Conversation } from './bot/conversation.ts';
 import type { RunningSlackApp, SlackConnection } from './bot/slack-app.ts';
+import { loadSecretKey } from './calendar/index.ts';
 import { loadWorkspace, type Workspace } from './config/index.ts';
 import { normalizeError, type Result, SlotwrightError } from './errors.ts';
 import {
@@ -122,7 +123,7 @@ export interface OpenServiceOptions {
   readonly pool?: boolean;
   /** Key signing option tokens; replicas must share it. @default a random key per process */
   readonly tokenKey?: string;
-  /** SLOTWRIGHT_SECRET_KEY (32 bytes, base64): seals feed addresses added in chat. @default none (adding is refused) */
+  /** SLOTWRIGHT_SECRET_KEY (32 bytes, base64): seals feed addresses added in chat. @default a key generated into data/secret.key */
   readonly secretKey?: string;
   /** Feed fetcher override (tests). @default the safe fetcher of src/calendar */
   readonly fetchFeed?: ServiceOptions['fetchFeed'];
@@ -270,7 +271,13 @@ export async function startSlackFromEnv(
     ...(env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: env.SLOTWRIGHT_DATABASE_URL }),
     // Replicas behind a load balancer must share the key; one process can make its own.
     ...(env.SLOTWRIGHT_TOKEN_KEY === undefined ? {} : { tokenKey: env.SLOTWRIGHT_TOKEN_KEY }),
-    ...(env.SLOTWRIGHT_SECRET_KEY === undefined ? {} : { secretKey: env.SLOTWRIGHT_SECRET_KEY }),
+    // Without SLOTWRIGHT_SECRET_KEY a key is generated once into data/secret.key (with a warning), so
+    // feed addresses sealed today still open after a restart.
+    secretKey: loadSecretKey({
+      env: { SLOTWRIGHT_SECRET_KEY: env.SLOTWRIGHT_SECRET_KEY },
+      dataDir: 'data',
+      warn: log,
+    }).toString('base64'),
   });
   const connection: SlackConnection =
     env.SLACK_APP_TOKEN !== undefined
