@@ -3,6 +3,7 @@
  * starts the chat app (Slack when tokens are set) or the terminal console.
  */
 import { randomBytes, randomUUID } from 'node:crypto';
+import type { IncomingMessage, ServerResponse } from 'node:http';
 import { hostname } from 'node:os';
 import { join } from 'node:path';
 import type { Readable } from 'node:stream';
@@ -22,7 +23,12 @@ import { startWeekPlanPosting, type WeekPostCoordination } from './app/week-post
 import { runConsole } from './bot/console.ts';
 import { Conversation } from './bot/conversation.ts';
 import type { RunningSlackApp, SlackConnection } from './bot/slack-app.ts';
-import { loadSecretKey } from './calendar/index.ts';
+import {
+  type FeedOwner,
+  loadSecretKey,
+  newSubscriptionToken,
+  subscriptionHandler,
+} from './calendar/index.ts';
 import { loadWorkspace, type Workspace } from './config/index.ts';
 import { normalizeError, type Result, SlotwrightError } from './errors.ts';
 import {
@@ -144,6 +150,10 @@ export interface OpenedService {
   readonly holds: HoldReleaser;
   /** Fairness history, for the weekly post. */
   readonly fairness: FairnessLedger;
+  /** Serves `GET /feeds/<token>.ics`: one person's or room's bookings as a subscription calendar. */
+  readonly feeds: (req: IncomingMessage, res: ServerResponse) => void;
+  /** Makes a new subscription token for a person or room (only its hash is stored); returns the token. */
+  issueFeedToken(owner: FeedOwner): Promise<string>;
   close(): Promise<void>;
 }
 
@@ -191,11 +201,43 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
     ...(options.fetchFeed === undefined ? {} : { fetchFeed: options.fetchFeed }),
     ...(pool === undefined ? {} : { pool }),
   });
+  const roomNames = new Map(ws.value.rooms.map((r) => [r.id, r.name ?? r.id]));
+  const feeds = subscriptionHandler({
+    lookup: (token) => ledger.lookupSubscriptionToken(token),
+    bookingsOf: async (owner, window) =>
+      (await bookingStore.listFor(owner, window, ['booked', 'cancelled'])).map((b) => ({
+        id: b.id,
+        title: b.title,
+        start: b.start,
+        end: b.end,
+        state: b.state,
+        sequence: b.sequence,
+        room: b.room,
+      })),
+    now: options.now,
+    feed: {
+      domain: 'slotwright.invalid',
+      name: ws.value.name ?? 'slotwright',
+      roomName: (id) => roomNames.get(id),
+    },
+  });
+  const owners = {
+    person: new Set(ws.value.people.map((p) => p.id)),
+    room: new Set(ws.value.rooms.map((r) => r.id)),
+  };
   return {
     service,
     pool,
     holds: bookingStore,
     fairness: ledger,
+    feeds,
+    issueFeedToken: async (owner) => {
+      if (!owners[owner.kind].has(owner.id))
+        throw new SlotwrightError('not_found', `the workspace has no ${owner.kind} '${owner.id}'`);
+      const token = newSubscriptionToken();
+      await ledger.saveSubscriptionToken(token, owner, options.now());
+      return token;
+    },
     close: async () => {
       await pool?.close();
       await handle.close();
@@ -289,6 +331,7 @@ export async function startSlackFromEnv(
     botToken: env.SLACK_BOT_TOKEN,
     connection,
     conversation: new Conversation(opened.service),
+    feeds: opened.feeds,
     log,
     ...(env.SLACK_API_URL === undefined ? {} : { slackApiUrl: env.SLACK_API_URL }),
   });

@@ -27,6 +27,8 @@ export interface SlackAppOptions {
   readonly botToken: string;
   readonly connection: SlackConnection;
   readonly conversation: Conversation;
+  /** Serves `/feeds/…` (subscription calendars) on the same HTTP server, before the signature check. @default none */
+  readonly feeds?: (req: IncomingMessage, res: ServerResponse) => void;
   /** Web API base URL (proxies, loopback stubs in tests). @default 'https://slack.com/api/' */
   readonly slackApiUrl?: string;
   /** Current instant in epoch ms. @default Date.now */
@@ -131,7 +133,13 @@ export async function startSlackApp(options: SlackAppOptions): Promise<RunningSl
   }
   const secret = options.connection.signingSecret;
   const bolt = receiver;
+  const feeds = options.feeds;
   const server: Server = createServer((req: IncomingMessage, res: ServerResponse) => {
+    // Calendar clients fetch subscription feeds with a token in the path; they carry no chat signature.
+    if (feeds !== undefined && (req.url ?? '').startsWith('/feeds/')) {
+      feeds(req, res);
+      return;
+    }
     void (async () => {
       let raw: Buffer;
       try {

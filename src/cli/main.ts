@@ -29,6 +29,10 @@ const COMMANDS: Readonly<Record<string, { summary: string; load: () => Promise<{
       load: () => import('./commands/rule.ts'),
     },
     start: { summary: 'run the chat app (Slack or console)', load: () => import('./commands/start.ts') },
+    subscription: {
+      summary: "make a private calendar address of a person's or room's bookings",
+      load: () => import('./commands/subscription.ts'),
+    },
     week: { summary: 'plan a week of recurring meetings together', load: () => import('./commands/week.ts') },
   };
 
