@@ -23,7 +23,14 @@ import {
 import type { WeekProgress } from '../scheduling/week/index.ts';
 import { workspaceWeek } from '../scheduling/week/index.ts';
 import type { BookingRecord } from '../store/index.ts';
-import { addDays, type BusyInterval, type Interval, instantToZoned, zonedToInstant } from '../time/index.ts';
+import {
+  addDays,
+  type BusyInterval,
+  type Interval,
+  instantToZoned,
+  isValidZone,
+  zonedToInstant,
+} from '../time/index.ts';
 import type { BookingService, BusyOf } from './book.ts';
 import { fairnessWeightsFor } from './fairness.ts';
 import { busyByOwner, type FeedSpec, type FeedsDeps, refreshFeeds } from './feeds.ts';
@@ -479,12 +486,15 @@ interface OptionPayload {
 export class DefaultSlotwrightService implements SlotwrightService {
   readonly workspaceName: string;
   readonly #o: ServiceOptions;
-  readonly #people: PeopleDirectory;
+  /** The workspace, with zones learnt from chat profiles for people who have none of their own. */
+  #ws: Workspace;
+  #people: PeopleDirectory;
   readonly #last = new Map<string, MeetAnswer>();
   readonly #newId: () => string;
 
   constructor(options: ServiceOptions) {
     this.#o = options;
+    this.#ws = options.workspace;
     this.workspaceName = options.workspace.name ?? 'workspace';
     this.#people = directoryOf(options.workspace);
     this.#newId = options.newId ?? randomUUID;
@@ -492,11 +502,27 @@ export class DefaultSlotwrightService implements SlotwrightService {
 
   /** The workspace this service answers for. */
   get workspace(): Workspace {
-    return this.#o.workspace;
+    return this.#ws;
   }
 
   async identify(profile: ChatUserProfile): Promise<Result<ServicePerson>> {
-    return this.#people.identify(profile);
+    const found = this.#people.identify(profile);
+    if (!found.ok || profile.zone === undefined || !isValidZone(profile.zone)) return found;
+    const person = this.#ws.people.find((p) => p.id === found.value.id);
+    if (person?.zoneFromWorkspace !== true || person.zone === profile.zone) return found;
+    // The workspace gives this person no zone: their chat profile's zone is the better guess of
+    // where their working hours are, so it replaces the workspace default from now on.
+    const zone = profile.zone;
+    this.#ws = {
+      ...this.#ws,
+      people: this.#ws.people.map((p) => {
+        if (p.id !== person.id) return p;
+        const { zoneFromWorkspace: _default, ...own } = p;
+        return { ...own, zone };
+      }),
+    };
+    this.#people = directoryOf(this.#ws);
+    return { ok: true, value: this.#people.byId(person.id)! };
   }
 
   person(id: string): ServicePerson | undefined {
@@ -504,7 +530,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   defaultPerson(): ServicePerson {
-    const admin = this.#o.workspace.admins.map((a) => this.#people.byId(a)).find((p) => p !== undefined);
+    const admin = this.#ws.admins.map((a) => this.#people.byId(a)).find((p) => p !== undefined);
     const first = admin ?? this.#people.all[0];
     if (first === undefined) throw new SlotwrightError('config_invalid', 'the workspace has no people');
     return first;
@@ -512,7 +538,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
 
   /** The workspace's feeds as the feed use cases name them (`<owner>:<n>`), plus feeds added in chat. */
   async #feedSpecs(ownerIds?: readonly string[]): Promise<FeedSpec[]> {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     const owners = [
       ...ws.people.map((p) => ({ id: p.id, zone: p.zone, email: p.email, feeds: p.feeds })),
       ...ws.rooms.map((r) => ({ id: r.id, zone: r.zone, email: undefined, feeds: r.feeds })),
@@ -554,7 +580,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     span: Interval,
   ): Promise<Result<{ busy: ReadonlyMap<string, readonly BusyInterval[]>; warnings: readonly string[] }>> {
     const states = this.#o.feedStates;
-    if (states === undefined) return fileBusy(this.#o.workspace, ids, span);
+    if (states === undefined) return fileBusy(this.#ws, ids, span);
     const deps = this.#feedDeps(states);
     const specs = await this.#feedSpecs(ids);
     const before = await busyByOwner(specs, span, deps);
@@ -595,7 +621,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     const busy = new Map<string, BusyInterval[]>();
     for (const id of ids) {
       const list = [...(files.value.busy.get(id) ?? [])];
-      const kind = this.#o.workspace.rooms.some((r) => r.id === id) ? 'room' : 'person';
+      const kind = this.#ws.rooms.some((r) => r.id === id) ? 'room' : 'person';
       for (const b of await this.#o.bookingStore.listFor({ kind, id }, span, ['held', 'booked']))
         list.push({ start: b.start, end: b.end, kind: 'busy' });
       busy.set(id, list);
@@ -615,7 +641,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
         optional: named.value.optional,
       },
     };
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     const window =
       query.window === undefined
         ? { start: nowMs, end: nowMs + ws.horizon * DAY_MS }
@@ -680,7 +706,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     const requestId = this.#newId();
     const attendees = [...people.required, ...people.optional];
     const title = `Meeting: ${attendees.map((p) => p.name.split(/\s+/)[0]).join(', ')}`;
-    const roomName = (id: string) => this.#o.workspace.rooms.find((r) => r.id === id)?.name ?? id;
+    const roomName = (id: string) => this.#ws.rooms.find((r) => r.id === id)?.name ?? id;
     const options = outcome.options.map((o, i): MeetOption => {
       const payload: OptionPayload = {
         requestId,
@@ -756,8 +782,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   #view(b: BookingRecord): BookingView {
-    const room =
-      b.room === null ? undefined : (this.#o.workspace.rooms.find((r) => r.id === b.room)?.name ?? b.room);
+    const room = b.room === null ? undefined : (this.#ws.rooms.find((r) => r.id === b.room)?.name ?? b.room);
     return {
       id: b.id,
       state: b.state,
@@ -817,7 +842,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   #ruleDeps(): RuleDeps {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     return {
       store: this.#o.rules,
       people: ws.people.map((p) => ({ id: p.id, name: p.name })),
@@ -900,7 +925,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   async feeds(actor: ServicePerson, nowMs: number): Promise<Result<readonly FeedView[]>> {
-    const p = this.#o.workspace.people.find((x) => x.id === actor.id);
+    const p = this.#ws.people.find((x) => x.id === actor.id);
     if (p === undefined) return { ok: true, value: [] };
     const states = this.#o.feedStates;
     if (states === undefined) {
@@ -953,7 +978,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   async series(actor: ServicePerson, text: string, nowMs: number): Promise<Result<readonly SeriesView[]>> {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     if (text.trim() !== '') {
       // A sentence is read back so the person sees how it would be understood; series are saved in
       // the workspace file by an admin, not from chat.
@@ -994,7 +1019,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     isoWeek: string,
     nowMs: number,
   ): Promise<{ context: SchedulingContext; window: Interval }> {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     const monday = mondayOfIsoWeek(isoWeek);
     const window = {
       start: zonedToInstant(monday, 0, ws.zone) - DAY_MS,
@@ -1035,7 +1060,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     options: Omit<PlanWorkspaceWeekOptions, 'clock' | 'onProgress'>,
     onProgress?: (p: WeekProgressView) => void,
   ): Promise<Result<WeekProposal>> {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     if (onProgress === undefined && this.#o.pool === undefined) {
       const r = planWorkspaceWeek(ws, context, { ...options, clock: () => performance.now() });
       if (!r.ok) return r;
@@ -1051,7 +1076,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
     nowMs: number,
     onProgress?: (p: WeekProgressView) => void,
   ): Promise<Result<WeekPlanView>> {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     if (ws.series.length === 0)
       return failure('no_series', 'this workspace has no recurring meetings to plan');
     let isoWeek: string;
@@ -1152,7 +1177,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
   }
 
   async lockWeek(actor: ServicePerson, token: string, nowMs: number): Promise<Result<WeekLockView>> {
-    const ws = this.#o.workspace;
+    const ws = this.#ws;
     const store = this.#o.weekPlans;
     if (store === undefined) return notAvailable('locking a week plan');
     if (!actor.admin)

@@ -27,6 +27,8 @@ export interface WorkspacePerson {
   readonly email?: string;
   readonly chat?: string;
   readonly zone: string;
+  /** True when the person has no zone of their own and `zone` is the workspace's. */
+  readonly zoneFromWorkspace?: true;
   readonly workingHours: WeeklyHours;
   /** date-holidays region code ("PT", "CA-NS"); no public holidays are applied when absent. */
   readonly holidays?: string;
@@ -215,6 +217,7 @@ export function parseWorkspace(
       ...(p.email === undefined ? {} : { email: p.email }),
       ...(p.chat === undefined ? {} : { chat: p.chat }),
       zone: p.zone ?? ws.zone,
+      ...(p.zone === undefined ? { zoneFromWorkspace: true as const } : {}),
       workingHours: p.workingHours === undefined ? defaultHours : hoursOf(p.workingHours),
       ...(p.holidays === undefined ? {} : { holidays: p.holidays.toUpperCase() }),
       feeds: p.feeds.map((f) => feedRef(where.dir, f)),
