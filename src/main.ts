@@ -204,16 +204,8 @@ export async function openService(workspaceDir: string, options: OpenServiceOpti
   const roomNames = new Map(ws.value.rooms.map((r) => [r.id, r.name ?? r.id]));
   const feeds = subscriptionHandler({
     lookup: (token) => ledger.lookupSubscriptionToken(token),
-    bookingsOf: async (owner, window) =>
-      (await bookingStore.listFor(owner, window, ['booked', 'cancelled'])).map((b) => ({
-        id: b.id,
-        title: b.title,
-        start: b.start,
-        end: b.end,
-        state: b.state,
-        sequence: b.sequence,
-        room: b.room,
-      })),
+    // a booking record already has every field a feed booking needs
+    bookingsOf: (owner, window) => bookingStore.listFor(owner, window, ['booked', 'cancelled']),
     now: options.now,
     feed: {
       domain: 'slotwright.invalid',

@@ -1,9 +1,8 @@
-import { newSubscriptionToken } from '../../calendar/index.ts';
-import { openStoreFromEnv, SqlLedgerStore } from '../../store/index.ts';
+import { SlotwrightError } from '../../errors.ts';
+import { openService } from '../../main.ts';
 import { parseVerbArgs, stringOption } from '../args.ts';
 import { UsageError } from '../io.ts';
 import type { CliCommand } from '../main.ts';
-import { loadWorkspaceOrThrow } from './book.ts';
 
 const USAGE = `Usage: slotwright subscription --workspace <dir> (--person <id> | --room <id>) [--base <url>] [--json]
 
@@ -44,28 +43,26 @@ export const command: CliCommand = {
     );
     if (!/^https?:\/\/[^/\s]+(\/\S*)?$/.test(base))
       throw new UsageError(`--base takes an http(s) address such as https://slot.example.org, got '${base}'`);
-    const ws = loadWorkspaceOrThrow(stringOption(values, 'workspace', true), io.now());
     const owner =
       person === undefined ? { kind: 'room' as const, id: room! } : { kind: 'person' as const, id: person };
-    const known =
-      owner.kind === 'person'
-        ? ws.people.some((p) => p.id === owner.id)
-        : ws.rooms.some((r) => r.id === owner.id);
-    if (!known) {
-      const message = `the workspace has no ${owner.kind} '${owner.id}'; see 'slotwright check --workspace <dir>'`;
+    // the same service the running app serves the feeds from checks the owner and stores the token hash
+    const opened = await openService(stringOption(values, 'workspace', true), {
+      now: io.now,
+      pool: false,
+      ...(io.env.SLOTWRIGHT_DATABASE_URL === undefined ? {} : { database: io.env.SLOTWRIGHT_DATABASE_URL }),
+    });
+    try {
+      const url = `${base}/feeds/${await opened.issueFeedToken(owner)}.ics`;
+      io.out(values.json === true ? JSON.stringify({ url, owner }) : url);
+      return 0;
+    } catch (error) {
+      if (!(error instanceof SlotwrightError) || error.code !== 'not_found') throw error;
+      const message = `${error.message}; see 'slotwright check --workspace <dir>'`;
       if (values.json === true) io.out(JSON.stringify({ error: 'not_found', message }));
       else io.err(`slotwright subscription: ${message}`);
       return 1;
-    }
-    const handle = await openStoreFromEnv(io.env, process.cwd());
-    try {
-      const token = newSubscriptionToken();
-      await new SqlLedgerStore(handle).saveSubscriptionToken(token, owner, io.now());
-      const url = `${base}/feeds/${token}.ics`;
-      io.out(values.json === true ? JSON.stringify({ url, owner }) : url);
-      return 0;
     } finally {
-      await handle.close();
+      await opened.close();
     }
   },
 };
