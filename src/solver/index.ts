@@ -8,6 +8,13 @@ export {
   type Model,
   ModelBuilder,
 } from './model.ts';
+export {
+  type AnnealOptions,
+  type AnnealProgress,
+  type AnnealResult,
+  anneal,
+  type NeighbourhoodProblem,
+} from './neighbourhood.ts';
 export { Prng } from './prng.ts';
 export { countSolutions, solutions, solve } from './solve.ts';
 export type {

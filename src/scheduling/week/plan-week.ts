@@ -1,4 +1,12 @@
-import { improve, ModelBuilder, minimalConflict, type SolveResult, solve } from '../../solver/index.ts';
+import {
+  type AnnealOptions,
+  anneal,
+  improve,
+  ModelBuilder,
+  minimalConflict,
+  type SolveResult,
+  solve,
+} from '../../solver/index.ts';
 import {
   buildImproveModel,
   buildPlaceModel,
@@ -7,6 +15,7 @@ import {
   ROOM_GROUP,
   type WeekModel,
 } from './week-model.ts';
+import { WeekNeighbourhood } from './week-neighbourhood.ts';
 import type { PlacedSession, WeekRequest } from './week-request.ts';
 import { type ScoreParts, WeekScorer } from './week-scorer.ts';
 import { WeekSpace } from './week-space.ts';
@@ -43,14 +52,15 @@ export interface PlanWeekOptions {
   readonly timeMs?: number;
   /** Clock in ms (inner layers never read the clock themselves). */
   readonly clock?: () => number;
-  /** Local-search moves for the improvement phase, in rounds (the last one may run up to 255 past it). @default 20000, or no limit when `timeMs` is set */
+  /**
+   * Annealing moves tried in the improvement phase; the temperature cools once over this budget (or
+   * over the time left). @default 20000, or no limit when `timeMs` is set
+   */
   readonly moves?: number;
-  /** Moves per improvement round; each round starts from the best plan so far. @default 30000 */
-  readonly roundMoves?: number;
+  /** Annealing settings passed to the engine (temperatures, round growth, share of swaps). @default the engine's */
+  readonly annealing?: Pick<AnnealOptions, 'startTemperature' | 'endShare' | 'growth' | 'swapShare'>;
   /** With `timeMs`, how long placing (before any improvement) may take at most, in ms, even past `timeMs`. @default 10000 */
   readonly placeMs?: number;
-  /** Every how many improvement rounds one anneals (the others are min-conflicts descent). @default 4 */
-  readonly annealEvery?: number;
   /** Node limit of each construction search. @default 200000 */
   readonly searchNodes?: number;
   /** Seed of every randomized step; same seed and move budget, same plan. @default 1 */
@@ -90,18 +100,16 @@ const CLASH_WEIGHT = 1e5;
 
 const DEFAULTS = {
   moves: 20_000,
-  roundMoves: 30_000,
   searchNodes: 200_000,
   seed: 1,
   placeMs: 10_000,
-  annealEvery: 4,
 } satisfies Partial<PlanWeekOptions>;
 
 /**
  * Places every series of a week jointly: the hard layer by the engine's search (forward checking,
  * MRV, three value orders in turn, min-conflicts repair when they run out), then the preference cost
- * by rounds of the engine's local search. Series that cannot fit are left out, each with a minimal
- * conflicting set.
+ * by the engine's annealing over moves that keep the hard layer whole. Series that cannot fit are
+ * left out, each with a minimal conflicting set.
  */
 export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): WeekPlan {
   const o = {
@@ -250,9 +258,6 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   values.set(placed.values!);
   const feasibleMs = elapsed();
   active.sort((a, b) => a - b);
-  // the local-search models are built only when there is time to use them
-  let annealModel: WeekModel | null = null;
-  let descentModel: WeekModel | null = null;
   const sessionsOf = Int32Array.from(
     active.flatMap((s) => {
       const out: number[] = [];
@@ -265,73 +270,41 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   let best = initialCost;
   report('improve', best);
 
-  // 4. improve the preference cost in rounds, each from the best plan so far
+  // 4. improve the preference cost by the engine's annealing, moving sessions only where the hard
+  // layer stays whole (the neighbourhood refuses any move that makes a clash)
   let moves = 0;
   let rounds = 0;
-  // descent rounds move in a model without the room rules and pay for room clashes in the cost:
-  // each candidate value then checks a handful of attendee constraints instead of every room pair
-  const bridge = new ScorerBridge(scorer, sessionsOf, n, 0);
-  const descentBridge = new ScorerBridge(scorer, sessionsOf, n, CLASH_WEIGHT);
-  let assignment = Array.from(sessionsOf, (session) => values[session]!);
-  while (sessionsOf.length > 0 && moves < o.moves) {
-    const r = remaining();
-    if (r !== undefined && r <= 0) break;
-    // Most rounds are min-conflicts descent (one session to its best value, which finds the few
-    // improving moves of a tight week); every `annealEvery`-th anneals, walking wider with cheap moves.
-    const descent = (rounds + 1) % o.annealEvery !== 0;
-    // A round always gets its full size (the annealing schedule depends on it); when fewer moves are
-    // left, it is cut short by a signal instead, so a short run is a prefix of a longer one with the
-    // same seed and more moves never give a worse plan.
-    const roundMoves = descent ? Math.max(20, Math.round(o.roundMoves / 30)) : o.roundMoves;
-    const left = o.moves - moves;
-    const stop = new AbortController();
-    const b = descent ? descentBridge : bridge;
-    scorer.load(values);
-    b.reset(values);
-    if (descent) descentModel ??= buildImproveModel(space, active, { rooms: false });
-    else annealModel ??= buildImproveModel(space, active);
-    const res = improve((descent ? descentModel : annealModel)!.model, assignment, {
-      method: descent ? 'min-conflicts' : 'annealing',
-      objective: b.objective,
-      delta: b.delta,
-      moves: descent ? ['change'] : ['change', 'swap'],
+  const r = remaining();
+  const timed = r !== undefined && clock !== undefined;
+  if (sessionsOf.length > 0 && o.moves > 0 && (r === undefined || r > 0)) {
+    const problem = new WeekNeighbourhood(space, scorer, sessionsOf);
+    const res = anneal(problem, {
       budget: {
-        nodes: roundMoves,
-        ...(left < roundMoves ? { signal: stop.signal } : {}),
-        ...(r === undefined || clock === undefined ? {} : { timeMs: r, clock }),
+        ...(Number.isFinite(o.moves) ? { nodes: o.moves } : {}),
+        ...(timed ? { timeMs: r, clock } : {}),
       },
-      seed: o.seed + rounds * 7919,
-      // progress comes every 256 moves: the cut lands on the first report at or past the moves left
-      ...(left < roundMoves
-        ? {
-            onProgress: (p: { moves: number }) => {
-              if (p.moves >= left) stop.abort();
-            },
-          }
-        : {}),
+      seed: o.seed,
+      ...o.annealing,
+      onProgress: (p) => report('improve', Math.min(best, p.best)),
     });
-    moves += res.moves;
-    rounds++;
-    if (res.violations === 0 && res.moves > 0) {
-      const candidate = new Int32Array(values);
-      sessionsOf.forEach((session, v) => {
-        candidate[session] = res.assignment[v]!;
-      });
-      scorer.load(candidate);
-      const cost = scorer.total();
-      if (
-        cost < best - 1e-9 &&
-        scorer.clashes() === 0 &&
-        scorer.roomClashes() === 0 &&
-        countViolations(space, candidate) === 0
-      ) {
-        best = cost;
-        values.set(candidate);
-        assignment = [...res.assignment];
-      }
+    moves = res.moves;
+    rounds = res.rounds;
+    const candidate = new Int32Array(values);
+    sessionsOf.forEach((session, v) => {
+      candidate[session] = res.values[v]!;
+    });
+    scorer.load(candidate);
+    const cost = scorer.total();
+    if (
+      cost < best - 1e-9 &&
+      scorer.clashes() === 0 &&
+      scorer.roomClashes() === 0 &&
+      countViolations(space, candidate) === 0
+    ) {
+      best = cost;
+      values.set(candidate);
     }
     report('improve', best);
-    if (res.moves === 0) break;
   }
   scorer.load(values);
   const parts = scorer.parts();
@@ -362,56 +335,6 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
       initialCost,
       feasibleMs,
     },
-  };
-}
-
-/**
- * Keeps the scorer's counters in step with the assignment the engine's local search works on. The
- * engine changes a variable only through a move whose cost it first asks for with `delta`, so only
- * the variables asked about since the last call can have changed: checking those keeps each call
- * O(attendees of the moved session). `objective` (a whole assignment) resynchronizes everything.
- */
-class ScorerBridge {
-  readonly #scorer: WeekScorer;
-  readonly #sessions: Int32Array;
-  readonly #known: Int32Array;
-  readonly #asked: number[] = [];
-  readonly #roomClashWeight: number;
-
-  constructor(scorer: WeekScorer, sessions: Int32Array, sessionCount: number, roomClashWeight: number) {
-    this.#scorer = scorer;
-    this.#roomClashWeight = roomClashWeight;
-    this.#sessions = sessions;
-    this.#known = new Int32Array(sessionCount).fill(-1);
-  }
-
-  #put(v: number, value: number): void {
-    const session = this.#sessions[v]!;
-    if (this.#known[session] !== value) {
-      this.#scorer.set(session, value);
-      this.#known[session] = value;
-    }
-  }
-
-  /** Starts over from per-session values the scorer has just been loaded with. */
-  reset(values: Int32Array): void {
-    this.#known.set(values);
-    this.#asked.length = 0;
-  }
-
-  /** The whole assignment's cost. */
-  readonly objective = (a: readonly number[]): number => {
-    for (let v = 0; v < a.length; v++) this.#put(v, a[v]!);
-    this.#asked.length = 0;
-    return this.#scorer.total() + this.#scorer.roomClashes() * this.#roomClashWeight;
-  };
-
-  /** The cost change if variable `v` took `value`. */
-  readonly delta = (a: readonly number[], v: number, value: number): number => {
-    for (const w of this.#asked) this.#put(w, a[w]!);
-    this.#asked.length = 0;
-    this.#asked.push(v);
-    return this.#scorer.delta(this.#sessions[v]!, value, 0, this.#roomClashWeight);
   };
 }
 

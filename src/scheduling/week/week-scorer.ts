@@ -356,6 +356,56 @@ export class WeekScorer {
     return after - before;
   }
 
+  /**
+   * Moves `session` to `value` (-1 = out) and returns the change of the preference cost; clashes are
+   * not priced (see `clashes` and `roomClashes`).
+   */
+  applyDelta(session: number, value: number): number {
+    const old = this.#value[session]!;
+    if (old === value) return 0;
+    const sp = this.#space;
+    const s = sp.sessionSeries[session]!;
+    const cells = sp.request.cells;
+    const d0 = old >= 0 ? cells[sp.cellOf(old)]!.day : -1;
+    const d1 = value >= 0 ? cells[sp.cellOf(value)]!.day : -1;
+    const before = this.#localOf(s, d0, d1) + (old >= 0 ? this.#unaryOf(s, old) : 0);
+    this.set(session, value);
+    return this.#localOf(s, d0, d1) + (value >= 0 ? this.#unaryOf(s, value) : 0) - before;
+  }
+
+  /**
+   * True when `session` could take `value` without overlapping another session of one of its
+   * attendees, of its room, or of its own series (its own present place does not count).
+   */
+  freeFor(session: number, value: number): boolean {
+    const sp = this.#space;
+    const s = sp.sessionSeries[session]!;
+    const ser = sp.request.series[s]!;
+    const L = ser.length;
+    const C = this.#C;
+    const c = sp.cellOf(value);
+    const r = sp.roomOf(value);
+    const old = this.#value[session]!;
+    const oc = old >= 0 ? sp.cellOf(old) : -1;
+    const or = old >= 0 ? sp.roomOf(old) : -1;
+    const atts = ser.attendees;
+    for (let k = 0; k < L; k++) {
+      const cell = c + k;
+      const mine = oc >= 0 && cell >= oc && cell < oc + L ? 1 : 0;
+      for (let i = 0; i < atts.length; i++) if (this.#occ[atts[i]! * C + cell]! - mine > 0) return false;
+      if (r !== this.#RS - 1 && this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) > 0) return false;
+    }
+    if (atts.length === 0) {
+      for (let j = sp.seriesFirst[s]!; j < sp.seriesFirst[s + 1]!; j++) {
+        const w = this.#value[j]!;
+        if (j === session || w < 0) continue;
+        const wc = sp.cellOf(w);
+        if (wc < c + L && c < wc + L) return false;
+      }
+    }
+    return true;
+  }
+
   /** The cost of the current plan by kind, computed from the counters. */
   parts(): ScoreParts {
     const sp = this.#space;
