@@ -69,11 +69,18 @@ export interface LocalDateTime {
 // Offsets at the start and end of a local day, per zone; a day whose two offsets agree has no
 // transition inside it (zones never change twice in one day: common practice), so every local time
 // of that day converts with one subtraction instead of a full Temporal conversion.
-const dayOffsetCache = new Map<string, number | null>();
+// Keyed by zone, then by a number made of the date (no string building per lookup).
+const dayOffsetCache = new Map<string, Map<number, number | null>>();
+let dayOffsetEntries = 0;
 
 function dayOffset(zone: string, year: number, month: number, day: number): number | null {
-  const key = `${zone}|${year}|${month}|${day}`;
-  const hit = dayOffsetCache.get(key);
+  let perZone = dayOffsetCache.get(zone);
+  if (perZone === undefined) {
+    perZone = new Map();
+    dayOffsetCache.set(zone, perZone);
+  }
+  const key = (year * 16 + month) * 32 + day;
+  const hit = perZone.get(key);
   if (hit !== undefined) return hit;
   const start = new Temporal.PlainDateTime(year, month, day).toZonedDateTime(zone, {
     disambiguation: 'compatible',
@@ -85,8 +92,11 @@ function dayOffset(zone: string, year: number, month: number, day: number): numb
   const local0 = Date.UTC(year, month - 1, day);
   const uniform = o0 === o1 && start.epochMilliseconds === local0 - o0 / 1e6;
   const value = uniform ? o0 / 1e6 : null;
-  if (dayOffsetCache.size > 50_000) dayOffsetCache.clear();
-  dayOffsetCache.set(key, value);
+  if (++dayOffsetEntries > 50_000) {
+    for (const m of dayOffsetCache.values()) m.clear();
+    dayOffsetEntries = 1;
+  }
+  perZone.set(key, value);
   return value;
 }
 
