@@ -386,7 +386,8 @@ class FeedReader {
     for (const p of comp.getAllProperties('rrule')) {
       const recur = p.getFirstValue() as IcalRecur;
       const parts = recur.parts as Record<string, unknown[] | undefined>;
-      const ordinalDay = (parts.BYDAY ?? []).some((d) => /^[+-]?\d/.test(String(d)));
+      let ordinalDay = false;
+      for (const d of parts.BYDAY ?? []) if (/^[+-]?\d/.test(String(d))) ordinalDay = true;
       if (
         recur.freq === 'YEARLY' &&
         (parts.BYWEEKNO !== undefined || (ordinalDay && parts.BYMONTH === undefined))
@@ -582,6 +583,38 @@ function describe(name: string, line: number | undefined, index: number): string
   return line === undefined ? `${name.toUpperCase()} #${index + 1}` : `${name.toUpperCase()} at line ${line}`;
 }
 
+// The line of each top-level component, found by a line scan only when a warning first needs one.
+class ComponentLines {
+  #lines: (number | undefined)[] | undefined;
+  constructor(
+    readonly text: string,
+    readonly names: readonly string[],
+  ) {}
+
+  lineOf(i: number): number | undefined {
+    if (this.#lines === undefined) {
+      const scan = scanIcs(this.text);
+      const names = this.names;
+      const aligned =
+        names.length === scan.components.length && names.every((n, k) => n === scan.components[k]!.name);
+      this.#lines = names.map((_, k) => (aligned ? scan.components[k]!.line : undefined));
+    }
+    return this.#lines[i];
+  }
+}
+
+// A component named in warnings (one small object per component, no closure).
+class ChildWhere implements Where {
+  constructor(
+    readonly table: ComponentLines,
+    readonly index: number,
+  ) {}
+
+  toString(): string {
+    return describe(this.table.names[this.index]!, this.table.lineOf(this.index), this.index);
+  }
+}
+
 function rootsOf(parsed: unknown): Jcal[] {
   if (!Array.isArray(parsed)) return [];
   return (typeof parsed[0] === 'string' ? [parsed] : parsed) as Jcal[];
@@ -607,18 +640,13 @@ function childrenOf(text: string, reader: { warnings: string[]; skipped: number 
       );
     // Warnings name components by line; only the names are kept for that, so the parsed tree can be
     // collected as soon as the caller is done with it.
-    const names = jcals.map((j) => j[0]);
-    let lines: (number | undefined)[] | undefined;
-    const lineOf = (i: number): number | undefined => {
-      if (lines === undefined) {
-        const scan = scanIcs(text);
-        const aligned =
-          names.length === scan.components.length && names.every((n, k) => n === scan.components[k]!.name);
-        lines = names.map((_, k) => (aligned ? scan.components[k]!.line : undefined));
-      }
-      return lines[i];
-    };
-    return jcals.map((jcal, i) => ({ jcal, where: { toString: () => describe(names[i]!, lineOf(i), i) } }));
+    const table = new ComponentLines(
+      text,
+      jcals.map((j) => j[0]),
+    );
+    const out: Child[] = new Array(jcals.length);
+    for (let i = 0; i < jcals.length; i++) out[i] = { jcal: jcals[i]!, where: new ChildWhere(table, i) };
+    return out;
   }
   const scan = scanIcs(text);
   if (scan.calendars === 0)
