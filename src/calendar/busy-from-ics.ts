@@ -440,8 +440,15 @@ class FeedReader {
         );
     }
     const excluded = new Set<number>(overridden);
+    // An EXDATE written as a DATE on a DATE-TIME series removes the instances that start on that
+    // local date (common practice of calendar producers; RFC 5545 section 3.8.5.1 only says the
+    // value type should match DTSTART's).
+    const excludedDays = new Set<number>();
     for (const p of comp.getAllProperties('exdate')) {
-      for (const v of p.getValues() as IcalTime[]) excluded.add(this.instantOf(v, tzidOf(start)));
+      for (const v of p.getValues() as IcalTime[]) {
+        if (v.isDate && !start.isDate) excludedDays.add(pseudoUtc(localOf(v)) / DAY_MS);
+        else excluded.add(this.instantOf(v, tzidOf(start)));
+      }
     }
     const lengthBound = length.days * 25 * 3_600_000 + length.ms;
     const lo = this.#window.start - SLACK_MS - lengthBound;
@@ -480,6 +487,7 @@ class FeedReader {
         const instZone: ZoneRef = occ.zone === ICAL.Timezone.utcTimezone ? UTC_ZONE : occZone;
         const at = this.toInstant(local, instZone);
         if (excluded.has(at)) continue;
+        if (excludedDays.size > 0 && excludedDays.has(Math.floor(pseudo / DAY_MS))) continue;
         this.addInstance(local, instZone, length, kind, at);
       }
     } catch (error) {

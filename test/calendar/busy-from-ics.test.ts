@@ -154,6 +154,28 @@ describe('busyFromIcs', () => {
     ]);
   });
 
+  it('removes the instances on an EXDATE given as a DATE from a DATE-TIME series', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:daily-date-exdate',
+      'DTSTART;TZID=Pacific/Auckland:20261208T083000',
+      'DTEND;TZID=Pacific/Auckland:20261208T090000',
+      'RRULE:FREQ=DAILY;COUNT=4',
+      // a whole local day excluded, as producers write it for a DATE-TIME series (common practice)
+      'EXDATE;VALUE=DATE:20261209',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'Europe/Lisbon' });
+    // Auckland is UTC+13 in December (IANA tzdata: NZDT): 08:30 local is 19:30 UTC the day before,
+    // so the instance removed is the one of 9 December local time, 8 December in UTC
+    expect(rows(r)).toEqual([
+      ['2026-12-07T19:30:00Z', '2026-12-07T20:00:00Z', 'busy'],
+      ['2026-12-09T19:30:00Z', '2026-12-09T20:00:00Z', 'busy'],
+      ['2026-12-10T19:30:00Z', '2026-12-10T20:00:00Z', 'busy'],
+    ]);
+    expect(r.warnings).toEqual([]);
+  });
+
   it('rejects text that is not iCalendar', () => {
     expect(() => busyFromIcs('<html>nope</html>', { window: WEEK, zone: 'UTC' })).toThrow(SlotwrightError);
   });
