@@ -123,6 +123,26 @@ type ZoneRef =
   | { readonly kind: 'iana'; readonly zone: string }
   | { readonly kind: 'ical'; readonly tz: IcalTimezone };
 
+/** A RANGE=THISANDFUTURE change: from an original instant on, instances move by `shift` ms. */
+interface RangeChange {
+  readonly from: number;
+  readonly shift: number;
+  readonly length: Length;
+  /** undefined: those instances leave the time free (cancelled, transparent or declined). */
+  readonly kind: BusyKind | undefined;
+}
+
+// The latest change whose original instant is before `at` (the one at `at` is itself overridden).
+function rangeAt(ranges: readonly RangeChange[], at: number): RangeChange | undefined {
+  let hit: RangeChange | undefined;
+  for (const r of ranges) if (r.from < at) hit = r;
+  return hit;
+}
+
+function isThisAndFuture(range: unknown): boolean {
+  return typeof range === 'string' && range.toUpperCase() === 'THISANDFUTURE';
+}
+
 /** How long each instance lasts: whole local days plus an exact number of milliseconds. */
 interface Length {
   readonly days: number;
@@ -205,6 +225,7 @@ class FeedReader {
   readonly #vtimezones = new Map<string, Jcal>();
   readonly #warned = new Set<string>();
   readonly #paramZones = new Map<string, ZoneRef>();
+  readonly #ranges = new Map<string, RangeChange[]>();
   /** When set, objects built while reading are kept here (see SHAPES). */
   keep: unknown[] | undefined;
   readonly #durations = new Map<string, Length | null>();
@@ -373,6 +394,16 @@ class FeedReader {
       this.raw.push({ start, end, kind });
   }
 
+  // RFC 5545 section 3.8.4.4: a RECURRENCE-ID with RANGE=THISANDFUTURE changes that instance and
+  // all later ones; the change of start time and the duration (and here also the busy kind) carry
+  // over to each of them.
+  #noteRange(uid: string, from: number, startAt: number, length: Length, kind: BusyKind | undefined): void {
+    const list = this.#ranges.get(uid) ?? [];
+    list.push({ from, shift: startAt - from, length, kind });
+    list.sort((x, y) => x.from - y.from);
+    this.#ranges.set(uid, list);
+  }
+
   readEvent(comp: IcalComponent, where: Where, overridden: ReadonlySet<number> | undefined): void {
     const startProp = comp.getFirstProperty('dtstart');
     const ridProp = comp.getFirstProperty('recurrence-id');
@@ -384,13 +415,13 @@ class FeedReader {
     const start = (startProp ?? ridProp)!.getFirstValue() as IcalTime;
     const kind = this.kindOf(comp);
     const length = this.lengthOf(comp, start, where);
+    if (ridProp !== null && length !== undefined && isThisAndFuture(ridProp.getParameter('range'))) {
+      const uid = String(comp.getFirstPropertyValue('uid') ?? '');
+      const from = this.instantOf(ridProp.getFirstValue() as IcalTime);
+      this.#noteRange(uid, from, this.toInstant(localOf(start), this.zoneOf(start)), length, kind);
+    }
     if (length === undefined || kind === undefined) return;
     const zone = this.zoneOf(start);
-    if (ridProp !== null) {
-      const range = ridProp.getParameter('range');
-      if (typeof range === 'string' && range.toUpperCase() === 'THISANDFUTURE')
-        this.warnOnce(`range:${where}`, `${where}: RANGE=THISANDFUTURE is read as one changed instance`);
-    }
     const recurring = ridProp === null && (comp.hasProperty('rrule') || comp.hasProperty('rdate'));
     if (!recurring) {
       this.addInstance(localOf(start), zone, length, kind);
@@ -451,8 +482,15 @@ class FeedReader {
       }
     }
     const lengthBound = length.days * 25 * 3_600_000 + length.ms;
-    const lo = this.#window.start - SLACK_MS - lengthBound;
-    const hi = this.#window.end + SLACK_MS;
+    const ranges = this.#ranges.get(String(comp.getFirstPropertyValue('uid') ?? ''));
+    let earlier = 0;
+    let later = 0;
+    for (const r of ranges ?? []) {
+      earlier = Math.max(earlier, r.shift + r.length.days * 25 * 3_600_000 + r.length.ms);
+      later = Math.max(later, -r.shift);
+    }
+    const lo = this.#window.start - SLACK_MS - Math.max(lengthBound, earlier);
+    const hi = this.#window.end + SLACK_MS + later;
     const feedLeft = this.checksLeft;
     const seriesBudget = Math.min(CHECKS_PER_SERIES, feedLeft);
     checksLeft = seriesBudget;
@@ -488,7 +526,12 @@ class FeedReader {
         const at = this.toInstant(local, instZone);
         if (excluded.has(at)) continue;
         if (excludedDays.size > 0 && excludedDays.has(Math.floor(pseudo / DAY_MS))) continue;
-        this.addInstance(local, instZone, length, kind, at);
+        const range = ranges === undefined ? undefined : rangeAt(ranges, at);
+        if (range === undefined) this.addInstance(local, instZone, length, kind, at);
+        else if (range.kind !== undefined) {
+          const moved = at + range.shift;
+          this.addInstance(this.toLocal(moved, instZone), instZone, range.length, range.kind, moved);
+        }
       }
     } catch (error) {
       if (error instanceof ExpansionBudgetExceeded)
@@ -543,13 +586,10 @@ class FeedReader {
     const start = (e.start ?? e.rid)!;
     const kind = this.#kindOfJcal(e);
     const length = this.#lengthOfJcal(e, start, where);
+    if (e.rid !== undefined && length !== undefined && isThisAndFuture(e.ridRange))
+      this.#noteRange(e.uid, this.instantOfJcal(e.rid), this.instantOfJcal(start), length, kind);
     if (length === undefined || kind === undefined) return;
     const zone = this.zoneOfJcal(start);
-    if (e.rid !== undefined) {
-      const range = e.ridRange;
-      if (typeof range === 'string' && range.toUpperCase() === 'THISANDFUTURE')
-        this.warnOnce(`range:${where}`, `${where}: RANGE=THISANDFUTURE is read as one changed instance`);
-    }
     this.addInstance(start.local, zone, length, kind);
   }
 

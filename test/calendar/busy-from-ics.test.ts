@@ -176,6 +176,59 @@ describe('busyFromIcs', () => {
     expect(r.warnings).toEqual([]);
   });
 
+  it('applies a RANGE=THISANDFUTURE change to that instance and all later ones', () => {
+    const FOUR_WEEKS = { start: Date.UTC(2026, 11, 7), end: Date.UTC(2027, 0, 4) };
+    const series = (uid: string) => [
+      'BEGIN:VEVENT',
+      `UID:${uid}`,
+      'DTSTART;TZID=Europe/Lisbon:20261207T090000',
+      'DTEND;TZID=Europe/Lisbon:20261207T100000',
+      'RRULE:FREQ=WEEKLY;COUNT=4',
+      'END:VEVENT',
+    ];
+    const ics = cal(
+      ...series('moved-on'),
+      // from 14 December on: two hours later and half an hour long (RFC 5545 section 3.8.4.4: the
+      // start shift and the new duration carry over to every later instance)
+      'BEGIN:VEVENT',
+      'UID:moved-on',
+      'RECURRENCE-ID;RANGE=THISANDFUTURE;TZID=Europe/Lisbon:20261214T090000',
+      'DTSTART;TZID=Europe/Lisbon:20261214T110000',
+      'DTEND;TZID=Europe/Lisbon:20261214T113000',
+      'END:VEVENT',
+      // a single changed instance later on still wins over the range (it names that instance)
+      'BEGIN:VEVENT',
+      'UID:moved-on',
+      'RECURRENCE-ID;TZID=Europe/Lisbon:20261221T090000',
+      'DTSTART;TZID=Europe/Lisbon:20261221T150000',
+      'DTEND;TZID=Europe/Lisbon:20261221T160000',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: FOUR_WEEKS, zone: 'Europe/Lisbon' });
+    // Lisbon is UTC+0 in December (IANA tzdata: WET)
+    expect(rows(r)).toEqual([
+      ['2026-12-07T09:00:00Z', '2026-12-07T10:00:00Z', 'busy'],
+      ['2026-12-14T11:00:00Z', '2026-12-14T11:30:00Z', 'busy'],
+      ['2026-12-21T15:00:00Z', '2026-12-21T16:00:00Z', 'busy'],
+      ['2026-12-28T11:00:00Z', '2026-12-28T11:30:00Z', 'busy'],
+    ]);
+    expect(r.warnings).toEqual([]);
+
+    const cancelled = cal(
+      ...series('ends'),
+      'BEGIN:VEVENT',
+      'UID:ends',
+      'RECURRENCE-ID;RANGE=THISANDFUTURE;TZID=Europe/Lisbon:20261221T090000',
+      'DTSTART;TZID=Europe/Lisbon:20261221T090000',
+      'STATUS:CANCELLED',
+      'END:VEVENT',
+    );
+    expect(rows(busyFromIcs(cancelled, { window: FOUR_WEEKS, zone: 'Europe/Lisbon' }))).toEqual([
+      ['2026-12-07T09:00:00Z', '2026-12-07T10:00:00Z', 'busy'],
+      ['2026-12-14T09:00:00Z', '2026-12-14T10:00:00Z', 'busy'],
+    ]);
+  });
+
   it('rejects text that is not iCalendar', () => {
     expect(() => busyFromIcs('<html>nope</html>', { window: WEEK, zone: 'UTC' })).toThrow(SlotwrightError);
   });
