@@ -593,6 +593,22 @@ class FeedReader {
     this.addInstance(start.local, zone, length, kind);
   }
 
+  /** readEvent for a series whose DTSTART, DTEND, DURATION and status were read from jCal. */
+  readSeries(
+    comp: IcalComponent,
+    e: JcalEvent,
+    where: Where,
+    overridden: ReadonlySet<number> | undefined,
+  ): void {
+    const jstart = e.start!;
+    // the ical.js value is still needed: its rules are expanded from it
+    const start = comp.getFirstProperty('dtstart')!.getFirstValue() as IcalTime;
+    const kind = this.#kindOfJcal(e);
+    const length = this.#lengthOfJcal(e, jstart, where);
+    if (length === undefined || kind === undefined) return;
+    this.#expand(comp, start, this.zoneOfJcal(jstart), length, kind, where, overridden);
+  }
+
   #kindOfJcal(e: JcalEvent): BusyKind | undefined {
     const status = e.status.toUpperCase();
     const transp = e.transp.toUpperCase();
@@ -663,8 +679,19 @@ interface Where {
 }
 
 type Entry =
-  | { readonly simple: JcalEvent; readonly comp: undefined; readonly where: Where }
-  | { readonly simple: undefined; readonly comp: IcalComponent; readonly where: Where };
+  | {
+      readonly simple: JcalEvent;
+      readonly comp: undefined;
+      readonly where: Where;
+      readonly series: undefined;
+    }
+  | {
+      readonly simple: undefined;
+      readonly comp: IcalComponent;
+      readonly where: Where;
+      /** For a series in the plain shapes, its values as read from jCal. */
+      readonly series: JcalEvent | undefined;
+    };
 
 interface Child {
   readonly jcal: Jcal;
@@ -795,7 +822,12 @@ function readFeed(icsText: string, options: BusyOptions, keep: unknown[] | undef
         const scan = scanVevent(child.jcal[1] as unknown[][], window, durationSeconds);
         if (scan.kind === 'outside') continue;
         if (scan.kind === 'simple') {
-          events.push({ simple: scan.event, comp: undefined, where: child.where });
+          events.push({ simple: scan.event, comp: undefined, where: child.where, series: undefined });
+          continue;
+        }
+        if (scan.kind === 'recurring') {
+          const comp = new ICAL.Component(child.jcal);
+          events.push({ simple: undefined, comp, where: child.where, series: scan.event });
           continue;
         }
       }
@@ -805,7 +837,8 @@ function readFeed(icsText: string, options: BusyOptions, keep: unknown[] | undef
       if (name === 'vtimezone') {
         const tzid = comp.getFirstPropertyValue('tzid');
         if (typeof tzid === 'string') vtimezones.set(tzid, child.jcal);
-      } else if (name === 'vevent') events.push({ simple: undefined, comp, where: child.where });
+      } else if (name === 'vevent')
+        events.push({ simple: undefined, comp, where: child.where, series: undefined });
       else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
     } catch (error) {
       collector.warnings.push(`${child.where} could not be read: ${cleanMessage(error)}; left out`);
@@ -859,7 +892,8 @@ function readFeed(icsText: string, options: BusyOptions, keep: unknown[] | undef
       if (e.simple !== undefined) reader.readSimple(e.simple, e.where);
       else {
         const uid = String(e.comp.getFirstPropertyValue('uid') ?? '');
-        reader.readEvent(e.comp, e.where, overrides.get(uid));
+        if (e.series !== undefined) reader.readSeries(e.comp, e.series, e.where, overrides.get(uid));
+        else reader.readEvent(e.comp, e.where, overrides.get(uid));
       }
     } catch (error) {
       reader.warnings.push(`${e.where} could not be read: ${cleanMessage(error)}; left out`);

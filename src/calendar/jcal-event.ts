@@ -1,9 +1,9 @@
 // Reading of one VEVENT straight from the jCal arrays that ical.js's parser writes (RFC 7265 shape:
 // [name, params, type, value...]). Only the plain shapes are read here: a date ("2026-12-07") or a
 // date-time ("2026-12-07T09:00:00", "...Z") with valid fields, a DURATION of type duration. Anything
-// else, and every event with RRULE or RDATE, is left to the ical.js object path, which reads the
-// same values the same way; this only saves building ical.js objects for the many simple events of
-// a big feed.
+// else is left to the ical.js object path, which reads the same values the same way; this only saves
+// building ical.js objects for the many simple events of a big feed. Series (RRULE or RDATE) are
+// still expanded by ical.js; only their length and busy kind are read here.
 import type { Interval } from '../time/interval.ts';
 import type { LocalDateTime } from '../time/zoned.ts';
 
@@ -21,7 +21,7 @@ export interface JcalTime {
   readonly tzid: string | undefined;
 }
 
-/** What a non-recurring VEVENT contributes to busy time, read from jCal. */
+/** What a VEVENT contributes to busy time (apart from its recurrence), read from jCal. */
 export interface JcalEvent {
   /** First DTSTART, if any. */
   readonly start: JcalTime | undefined;
@@ -127,6 +127,8 @@ export type VeventScan =
   | { readonly kind: 'outside' }
   /** A non-recurring event in the plain shapes, read here. */
   | { readonly kind: 'simple'; readonly event: JcalEvent }
+  /** A series (RRULE or RDATE, no RECURRENCE-ID) whose other values are plain: ical.js expands it. */
+  | { readonly kind: 'recurring'; readonly event: JcalEvent }
   /** Anything else: read through ical.js objects. */
   | { readonly kind: 'full' };
 
@@ -159,11 +161,13 @@ export function scanVevent(
   let status: unknown;
   let transp: unknown;
   const attendees: (readonly unknown[])[] = [];
+  let recurring = false;
   for (const prop of props) {
     switch (prop[0]) {
       case 'rrule':
       case 'rdate':
-        return FULL;
+        recurring = true;
+        break;
       case 'recurrence-id':
         ridProp ??= prop;
         break;
@@ -195,7 +199,9 @@ export function scanVevent(
         break;
     }
   }
+  if (recurring && (ridProp !== undefined || startProp === undefined)) return FULL;
   if (
+    !recurring &&
     ridProp === undefined &&
     hasStart &&
     outside(lastStart, hasEnd, lastEnd, lastDuration, window, durationSeconds)
@@ -221,7 +227,7 @@ export function scanVevent(
     duration = durationProp[3];
   }
   return {
-    kind: 'simple',
+    kind: recurring ? 'recurring' : 'simple',
     event: {
       start: startProp === undefined ? undefined : start,
       rid,
