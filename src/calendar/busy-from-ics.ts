@@ -693,9 +693,10 @@ type Entry =
       readonly series: JcalEvent | undefined;
     };
 
-interface Child {
-  readonly jcal: Jcal;
-  readonly where: Where;
+/** The top-level components of a feed; `where` names one of them in warnings. */
+interface Children {
+  readonly jcals: readonly Jcal[];
+  where(index: number): Where;
 }
 
 function describe(name: string, line: number | undefined, index: number): string {
@@ -742,7 +743,7 @@ function rootsOf(parsed: unknown): Jcal[] {
 // Parses the whole text with ical.js; when that fails, parses each top-level component on its own
 // so one broken event does not hide the rest, and reports each broken one by name and line. The
 // line scan runs only when needed (a failed parse or a warning), as it costs time on big feeds.
-function childrenOf(text: string, reader: { warnings: string[]; skipped: number }): Child[] {
+function childrenOf(text: string, reader: { warnings: string[]; skipped: number }): Children {
   let roots: Jcal[] | undefined;
   let wholeError: unknown;
   try {
@@ -763,9 +764,7 @@ function childrenOf(text: string, reader: { warnings: string[]; skipped: number 
       text,
       jcals.map((j) => j[0]),
     );
-    const out: Child[] = new Array(jcals.length);
-    for (let i = 0; i < jcals.length; i++) out[i] = { jcal: jcals[i]!, where: new ChildWhere(table, i) };
-    return out;
+    return { jcals, where: (i) => new ChildWhere(table, i) };
   }
   const scan = scanIcs(text);
   if (scan.calendars === 0)
@@ -774,20 +773,25 @@ function childrenOf(text: string, reader: { warnings: string[]; skipped: number 
       `not an iCalendar feed: ${cleanMessage(wholeError)}; expected BEGIN:VCALENDAR ... END:VCALENDAR`,
       { cause: wholeError },
     );
-  const out: Child[] = [];
+  const jcals: Jcal[] = [];
+  const wheres: string[] = [];
   scan.components.forEach((c, i) => {
     const where = describe(c.name, c.line, i);
     try {
       if (c.unterminated) throw new Error(`no END:${c.name.toUpperCase()}`);
       const parsed = rootsOf(ICAL.parse(`BEGIN:VCALENDAR\r\n${c.text}\r\nEND:VCALENDAR\r\n`));
-      for (const r of parsed) for (const jcal of r[2]) out.push({ jcal, where });
+      for (const r of parsed)
+        for (const jcal of r[2]) {
+          jcals.push(jcal);
+          wheres.push(where);
+        }
     } catch (error) {
       const at = c.badLine === undefined ? '' : ` (line ${c.badLine})`;
       reader.warnings.push(`${where} could not be read${at}: ${cleanMessage(error)}; left out`);
       reader.skipped++;
     }
   });
-  return out;
+  return { jcals, where: (i) => wheres[i]! };
 }
 
 /**
@@ -809,39 +813,41 @@ function readFeed(icsText: string, options: BusyOptions, keep: unknown[] | undef
       `unknown time zone '${options.zone}'; use an IANA name such as Europe/Lisbon`,
     );
   const collector = { warnings: [] as string[], skipped: 0 };
-  let children: Child[] | undefined = childrenOf(icsText, collector);
+  let children: Children | undefined = childrenOf(icsText, collector);
   const vtimezones = new Map<string, Jcal>();
   // A VEVENT is either read straight from its jCal (simple) or wrapped in an ical.js Component.
   const events: Entry[] = [];
   const freeBusy: { comp: IcalComponent; where: Where }[] = [];
   const durationSeconds = (text: string): number => ICAL.Duration.fromString(text).toSeconds();
-  for (const child of children) {
-    const name = child.jcal[0];
+  const count = children.jcals.length;
+  for (let i = 0; i < count; i++) {
+    const jcal = children.jcals[i]!;
+    const name = jcal[0];
     try {
       if (name === 'vevent') {
-        const scan = scanVevent(child.jcal[1] as unknown[][], window, durationSeconds);
+        const scan = scanVevent(jcal[1] as unknown[][], window, durationSeconds);
         if (scan.kind === 'outside') continue;
         if (scan.kind === 'simple') {
-          events.push({ simple: scan.event, comp: undefined, where: child.where, series: undefined });
+          events.push({ simple: scan.event, comp: undefined, where: children.where(i), series: undefined });
           continue;
         }
         if (scan.kind === 'recurring') {
-          const comp = new ICAL.Component(child.jcal);
-          events.push({ simple: undefined, comp, where: child.where, series: scan.event });
+          const comp = new ICAL.Component(jcal);
+          events.push({ simple: undefined, comp, where: children.where(i), series: scan.event });
           continue;
         }
       }
       // Detached components: ical.js then looks no TZID up in the whole tree (slow on big feeds)
       // and zones are resolved here, through Temporal.
-      const comp = new ICAL.Component(child.jcal);
+      const comp = new ICAL.Component(jcal);
       if (name === 'vtimezone') {
         const tzid = comp.getFirstPropertyValue('tzid');
-        if (typeof tzid === 'string') vtimezones.set(tzid, child.jcal);
+        if (typeof tzid === 'string') vtimezones.set(tzid, jcal);
       } else if (name === 'vevent')
-        events.push({ simple: undefined, comp, where: child.where, series: undefined });
-      else if (name === 'vfreebusy') freeBusy.push({ comp, where: child.where });
+        events.push({ simple: undefined, comp, where: children.where(i), series: undefined });
+      else if (name === 'vfreebusy') freeBusy.push({ comp, where: children.where(i) });
     } catch (error) {
-      collector.warnings.push(`${child.where} could not be read: ${cleanMessage(error)}; left out`);
+      collector.warnings.push(`${children.where(i)} could not be read: ${cleanMessage(error)}; left out`);
       collector.skipped++;
     }
   }

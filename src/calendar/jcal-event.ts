@@ -133,6 +133,7 @@ export type VeventScan =
   | { readonly kind: 'full' };
 
 const OUTSIDE = { kind: 'outside' } as const;
+const NO_ATTENDEES: readonly (readonly unknown[])[] = [];
 const FULL = { kind: 'full' } as const;
 const PT_HMS = /^PT(?:(\d+)H)?(?:(\d+)M)?(?:(\d+)S)?$/;
 // Local times differ from UTC by at most about 14 hours; two days of slack keeps every candidate.
@@ -160,7 +161,7 @@ export function scanVevent(
   let uid: unknown;
   let status: unknown;
   let transp: unknown;
-  const attendees: (readonly unknown[])[] = [];
+  let attendees: (readonly unknown[])[] | undefined;
   let recurring = false;
   for (const prop of props) {
     switch (prop[0]) {
@@ -195,7 +196,8 @@ export function scanVevent(
         if (transp === undefined) transp = prop[3] ?? null;
         break;
       case 'attendee':
-        attendees.push(prop);
+        if (attendees === undefined) attendees = [prop];
+        else attendees.push(prop);
         break;
     }
   }
@@ -237,7 +239,7 @@ export function scanVevent(
       uid: String(uid ?? ''),
       status: String(status ?? ''),
       transp: String(transp ?? ''),
-      attendees,
+      attendees: attendees ?? NO_ATTENDEES,
     },
   };
 }
