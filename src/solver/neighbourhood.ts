@@ -29,6 +29,12 @@ export interface NeighbourhoodProblem {
   tryChange(variable: number, value: number, accept: (delta: number) => boolean): boolean;
   /** Like `tryChange`, for exchanging the values of two variables. Optional. */
   trySwap?(a: number, b: number, accept: (delta: number) => boolean): boolean;
+  /**
+   * Like `tryChange`, for a compound move the problem builds around `variable := value`: say, moving
+   * the variable together with everything it would clash with (a Kempe chain exchange between two
+   * periods). Optional.
+   */
+  tryChain?(variable: number, value: number, accept: (delta: number) => boolean): boolean;
   /** Sets every variable at once (to a feasible assignment the search saw before). */
   assign(values: ArrayLike<number>): void;
 }
@@ -41,6 +47,8 @@ export interface AnnealOptions {
   readonly seed?: number;
   /** Share of tried moves that are swaps, when the problem offers them. @default 0.5 */
   readonly swapShare?: number;
+  /** Share of tried moves that are chain moves, when the problem offers them. @default 0.1 */
+  readonly chainShare?: number;
   /**
    * Without a move or time limit (only a signal ends the search): moves of the first annealing round;
    * each later round is `growth` times longer and starts again, warm, from the best assignment so far.
@@ -110,12 +118,17 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
   const limit = b.nodes ?? Number.POSITIVE_INFINITY;
   const deadline = b.timeMs === undefined ? Number.POSITIVE_INFINITY : t0 + b.timeMs;
   const swapShare = problem.trySwap === undefined ? 0 : (options.swapShare ?? 0.5);
+  const chainShare = problem.tryChain === undefined ? 0 : (options.chainShare ?? 0.1);
   const growth = options.growth ?? 2;
   const endShare = options.endShare ?? 0.01;
-  if (!(growth >= 1) || !(endShare > 0 && endShare <= 1) || !(swapShare >= 0 && swapShare <= 1)) {
+  if (
+    !(growth >= 1) ||
+    !(endShare > 0 && endShare <= 1) ||
+    !(swapShare >= 0 && chainShare >= 0 && swapShare + chainShare <= 1)
+  ) {
     throw new SlotwrightError(
       'bad_argument',
-      'anneal: growth must be >= 1, endShare in (0, 1] and swapShare in [0, 1]',
+      'anneal: growth must be >= 1, endShare in (0, 1], and swapShare and chainShare at least 0 with a sum of at most 1',
     );
   }
   const domains = Array.from({ length: n }, (_, v) => problem.domain(v));
@@ -148,7 +161,8 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
   };
   const tryOne = (accept: (d: number) => boolean): boolean => {
     const v = rng.int(n);
-    if (swapShare > 0 && rng.next() < swapShare) {
+    const kind = rng.next();
+    if (kind < swapShare) {
       const u = rng.int(n);
       if (u === v) return false;
       return problem.trySwap!(v, u, accept);
@@ -157,6 +171,7 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
     if (dom.length < 2) return false;
     const value = dom[rng.int(dom.length)]!;
     if (value === problem.value(v)) return false;
+    if (kind < swapShare + chainShare) return problem.tryChain!(v, value, accept);
     return problem.tryChange(v, value, accept);
   };
 

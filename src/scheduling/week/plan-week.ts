@@ -57,8 +57,14 @@ export interface PlanWeekOptions {
    * over the time left). @default 20000, or no limit when `timeMs` is set
    */
   readonly moves?: number;
-  /** Annealing settings passed to the engine (temperatures, round growth, share of swaps). @default the engine's */
-  readonly annealing?: Pick<AnnealOptions, 'startTemperature' | 'endShare' | 'growth' | 'swapShare'>;
+  /**
+   * Annealing settings passed to the engine (temperatures, round growth, shares of swaps and chain
+   * moves). @default swapShare 0.2 and chainShare 0.5 (tuned on the benchmark weeks), the rest the engine's
+   */
+  readonly annealing?: Pick<
+    AnnealOptions,
+    'startTemperature' | 'endShare' | 'growth' | 'swapShare' | 'chainShare'
+  >;
   /** With `timeMs`, how long placing (before any improvement) may take at most, in ms, even past `timeMs`. @default 10000 */
   readonly placeMs?: number;
   /** Node limit of each construction search. @default 200000 */
@@ -284,6 +290,8 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
         ...(timed ? { timeMs: r, clock } : {}),
       },
       seed: o.seed,
+      swapShare: 0.2,
+      chainShare: 0.5,
       ...o.annealing,
       onProgress: (p) => report('improve', Math.min(best, p.best)),
     });

@@ -19,6 +19,16 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   /** Per value with a room: the variable holding it, or -1. */
   readonly #holder: Int32Array;
   readonly #noRoom: number;
+  /** Variables whose session starts at each cell (kept for chain moves). */
+  readonly #atCell: number[][];
+  /** Rooms each series may take (empty when it needs none). */
+  readonly #roomsOf: readonly Int32Array[];
+  /** Chain scratch: the chain's stamp per variable, its members and their sides and old values. */
+  readonly #mark: Int32Array;
+  #stamp = 0;
+  readonly #members: number[] = [];
+  readonly #side: number[] = [];
+  readonly #olds: number[] = [];
   #cost: number;
 
   /** `sessions` are the session indexes to move; the scorer must hold a plan without clashes. */
@@ -34,21 +44,34 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     });
     this.#holder = new Int32Array(this.#values).fill(-1);
     this.#noRoom = space.request.rooms.length;
+    this.#atCell = space.request.cells.map(() => []);
+    this.#roomsOf = space.request.series.map((_, s) => Int32Array.from(space.roomsFor(s)));
+    this.#mark = new Int32Array(sessions.length);
     this.#cost = scorer.total();
     this.#hold();
   }
 
   #hold(): void {
     this.#holder.fill(-1);
+    for (const list of this.#atCell) list.length = 0;
     for (let v = 0; v < this.size; v++) this.#take(v, this.value(v));
   }
 
   #take(variable: number, value: number): void {
-    if (value >= 0 && this.#space.roomOf(value) !== this.#noRoom) this.#holder[value] = variable;
+    if (value < 0) return;
+    if (this.#space.roomOf(value) !== this.#noRoom) this.#holder[value] = variable;
+    this.#atCell[this.#space.cellOf(value)]!.push(variable);
   }
 
   #drop(variable: number, value: number): void {
-    if (value >= 0 && this.#holder[value] === variable) this.#holder[value] = -1;
+    if (value < 0) return;
+    if (this.#holder[value] === variable) this.#holder[value] = -1;
+    const list = this.#atCell[this.#space.cellOf(value)]!;
+    const k = list.indexOf(variable);
+    if (k >= 0) {
+      list[k] = list[list.length - 1]!;
+      list.pop();
+    }
   }
 
   value(variable: number): number {
@@ -127,6 +150,89 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     return false;
   }
 
+  /**
+   * A Kempe chain exchange between the variable's start cell and `value`'s: the session moves there,
+   * every session starting there that shares an attendee with it moves the other way, and so on
+   * until nothing clashes across the two cells. Each keeps its room when that is free at its new
+   * start, else takes the first free room that fits. Refused when the chain mixes session lengths,
+   * grows past 32 sessions, or some member finds no free room.
+   */
+  tryChain(variable: number, value: number, accept: (delta: number) => boolean): boolean {
+    const sp = this.#space;
+    const sc = this.#scorer;
+    const req = sp.request;
+    const first = sc.valueOf(this.#sessions[variable]!);
+    const p1 = sp.cellOf(first);
+    const p2 = sp.cellOf(value);
+    if (p1 === p2) return false;
+    const length = req.series[sp.sessionSeries[this.#sessions[variable]!]!]!.length;
+    const stamp = ++this.#stamp;
+    const members = this.#members;
+    const side = this.#side;
+    members.length = 0;
+    side.length = 0;
+    members.push(variable);
+    side.push(0);
+    this.#mark[variable] = stamp;
+    for (let k = 0; k < members.length; k++) {
+      const x = members[k]!;
+      const xs = req.series[sp.sessionSeries[this.#sessions[x]!]!]!;
+      const there = this.#atCell[side[k] === 0 ? p2 : p1]!;
+      for (const y of there) {
+        if (this.#mark[y] === stamp) continue;
+        const ys = req.series[sp.sessionSeries[this.#sessions[y]!]!]!;
+        if (xs !== ys && !sharesAttendee(xs.attendees, ys.attendees)) continue;
+        if (ys.length !== length || members.length >= 32) return false;
+        this.#mark[y] = stamp;
+        members.push(y);
+        side.push(1 - side[k]!);
+      }
+    }
+    // the chain must leave p1 for p2 only if every member fits its new start
+    const olds = this.#olds;
+    olds.length = 0;
+    let d = 0;
+    for (const m of members) {
+      const session = this.#sessions[m]!;
+      olds.push(sc.valueOf(session));
+      d += sc.applyDelta(session, -1);
+    }
+    let placed = 0;
+    for (; placed < members.length; placed++) {
+      const m = members[placed]!;
+      const session = this.#sessions[m]!;
+      const w = this.#roomAt(session, side[placed] === 0 ? p2 : p1, sp.roomOf(olds[placed]!));
+      if (w < 0) break;
+      d += sc.applyDelta(session, w);
+    }
+    if (placed === members.length && accept(d)) {
+      this.#cost += d;
+      for (let k = 0; k < members.length; k++) this.#drop(members[k]!, olds[k]!);
+      for (const m of members) this.#take(m, sc.valueOf(this.#sessions[m]!));
+      return true;
+    }
+    for (let k = 0; k < placed; k++) sc.set(this.#sessions[members[k]!]!, -1);
+    for (let k = 0; k < members.length; k++) sc.set(this.#sessions[members[k]!]!, olds[k]!);
+    return false;
+  }
+
+  /** A free value for `session` starting at `cell`: its room `room` if possible, else the first that fits; -1 when none. */
+  #roomAt(session: number, cell: number, room: number): number {
+    const sp = this.#space;
+    const sc = this.#scorer;
+    const s = sp.sessionSeries[session]!;
+    const base = s * this.#values;
+    const RS = sp.roomSlots;
+    const own = cell * RS + room;
+    if (this.#allowed[base + own] === 1 && sc.freeFor(session, own)) return own;
+    if (room === this.#noRoom) return -1;
+    for (const r of this.#roomsOf[s]!) {
+      const w = cell * RS + r;
+      if (r !== room && this.#allowed[base + w] === 1 && sc.freeFor(session, w)) return w;
+    }
+    return -1;
+  }
+
   assign(values: ArrayLike<number>): void {
     const sc = this.#scorer;
     for (let v = 0; v < this.size; v++) sc.set(this.#sessions[v]!, -1);
@@ -134,4 +240,9 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#cost = sc.total();
     this.#hold();
   }
+}
+
+function sharesAttendee(a: readonly number[], b: readonly number[]): boolean {
+  for (let i = 0; i < a.length; i++) for (let j = 0; j < b.length; j++) if (a[i] === b[j]) return true;
+  return false;
 }

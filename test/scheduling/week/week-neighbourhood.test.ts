@@ -5,6 +5,7 @@ import {
   syntheticWeek,
   type WeekRequest,
   WeekSpace,
+  ZERO_WEIGHTS,
 } from '../../../src/scheduling/week/index.ts';
 import { WeekNeighbourhood } from '../../../src/scheduling/week/week-neighbourhood.ts';
 import { WeekScorer } from '../../../src/scheduling/week/week-scorer.ts';
@@ -38,29 +39,35 @@ function walk(req: WeekRequest, steps: number, seed: number) {
   const rng = new Prng(seed);
   let taken = 0;
   let refused = 0;
+  let chains = 0;
   for (let k = 0; k < steps; k++) {
     const v = rng.int(p.size);
     const before = Array.from(placed, (_, x) => p.value(x));
     let ok: boolean;
-    if (rng.next() < 0.5) {
-      const dom = p.domain(v);
-      ok = p.tryChange(v, dom[rng.int(dom.length)]!, () => true);
-    } else ok = p.trySwap(v, rng.int(p.size), () => rng.next() < 0.5);
-    if (ok) taken++;
-    else {
+    const kind = rng.next();
+    const dom = p.domain(v);
+    const value = dom[rng.int(dom.length)]!;
+    if (kind < 0.33) ok = p.tryChange(v, value, () => true);
+    else if (kind < 0.66) ok = p.tryChain(v, value, () => rng.next() < 0.7);
+    else ok = p.trySwap(v, rng.int(p.size), () => rng.next() < 0.5);
+    if (ok) {
+      taken++;
+      if (kind >= 0.33 && kind < 0.66) chains++;
+    } else {
       refused++;
       // a refused (or rejected) move leaves every session where it was
       expect(Array.from(placed, (_, x) => p.value(x))).toEqual(before);
     }
   }
-  return { p, space, scorer, taken, refused };
+  return { p, space, scorer, taken, refused, chains };
 }
 
 describe('WeekNeighbourhood (moves the annealing may make in a week plan)', () => {
   it('keeps a synthetic week free of clashes by an independent check, and its running cost exact', () => {
     const req = syntheticWeek({ series: 60, people: 40, rooms: 6, seed: 4 });
-    const { p, space, scorer, taken, refused } = walk(req, 4000, 4);
+    const { p, space, scorer, taken, refused, chains } = walk(req, 4000, 4);
     expect(taken).toBeGreaterThan(100);
+    expect(chains).toBeGreaterThan(20);
     expect(refused).toBeGreaterThan(100);
     expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
     // the cost carried move by move equals a fresh count of the same plan
@@ -75,5 +82,53 @@ describe('WeekNeighbourhood (moves the annealing may make in a week plan)', () =
     const { space, scorer, taken } = walk(req, 3000, 9);
     expect(taken).toBeGreaterThan(50);
     expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
+  });
+});
+
+describe('WeekNeighbourhood chain moves', () => {
+  // invented: one day of three one-hour cells, two people, no rooms
+  const HOUR = 3_600_000;
+  const req: WeekRequest = {
+    cells: [0, 1, 2].map((c) => ({ start: c * HOUR, end: (c + 1) * HOUR, day: 0 })),
+    days: 1,
+    rooms: [],
+    attendees: [{ id: 'p' }, { id: 'q' }],
+    series: [
+      { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1 },
+      { id: 'b', attendees: [0, 1], sessions: 1, minDays: 1, length: 1 },
+      { id: 'c', attendees: [1], sessions: 1, minDays: 1, length: 1 },
+    ],
+    weights: { ...ZERO_WEIGHTS },
+    seatsHard: true,
+  };
+
+  it('moves a session into a cell it clashes with by sending the clashing ones the other way', () => {
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    // a at cell 0, b at cell 1, c at cell 0 (value = cell x room slots, one slot: no room)
+    scorer.load([0, 1, 0]);
+    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]));
+    // a plain move of a to cell 1 clashes with b (both have p)
+    expect(p.tryChange(0, 1, () => true)).toBe(false);
+    // the chain: a to 1, b (shares p with a) to 0, then c (shares q with b, at 0) to 1
+    let seen = Number.NaN;
+    expect(
+      p.tryChain(0, 1, (d) => {
+        seen = d;
+        return true;
+      }),
+    ).toBe(true);
+    expect([p.value(0), p.value(1), p.value(2)]).toEqual([1, 0, 1]);
+    expect(seen).toBe(0);
+    expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
+  });
+
+  it('leaves everything in place when the acceptance says no', () => {
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    scorer.load([0, 1, 0]);
+    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]));
+    expect(p.tryChain(0, 1, () => false)).toBe(false);
+    expect([p.value(0), p.value(1), p.value(2)]).toEqual([0, 1, 0]);
   });
 });
