@@ -45,7 +45,7 @@ export interface AnnealOptions {
   readonly budget: Budget;
   /** @default 0 */
   readonly seed?: number;
-  /** Share of tried moves that are swaps, when the problem offers them. @default 0.5 */
+  /** Share of tried moves that are swaps, when the problem offers them. @default 0.5, or less so the shares sum to at most 1 */
   readonly swapShare?: number;
   /** Share of tried moves that are chain moves, when the problem offers them. @default 0.1 */
   readonly chainShare?: number;
@@ -92,10 +92,10 @@ const PROGRESS_EVERY = 4096;
 const EPOCH = 64;
 
 /**
- * Walks a feasible assignment to a cheaper one by simulated annealing with change and swap moves,
- * in rounds of growing length, each from the best assignment so far; never ends worse than it
- * started and leaves the problem holding the best assignment. Deterministic for a seed and a move
- * budget.
+ * Walks a feasible assignment to a cheaper one by simulated annealing with change, swap and chain
+ * moves: one geometric cooling over the whole move or time budget (or, with only a signal to end it,
+ * rounds of growing length, each from the best so far). Never ends worse than it started and leaves
+ * the problem holding the best assignment. Deterministic for a seed and a move budget.
  */
 export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): AnnealResult {
   const b = options.budget;
@@ -117,14 +117,17 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
   const t0 = clock?.() ?? 0;
   const limit = b.nodes ?? Number.POSITIVE_INFINITY;
   const deadline = b.timeMs === undefined ? Number.POSITIVE_INFINITY : t0 + b.timeMs;
-  const swapShare = problem.trySwap === undefined ? 0 : (options.swapShare ?? 0.5);
-  const chainShare = problem.tryChain === undefined ? 0 : (options.chainShare ?? 0.1);
+  // shares as asked (a share for a move the problem lacks is dropped, not an error)
+  const askedChain = options.chainShare ?? 0.1;
+  const askedSwap = options.swapShare ?? Math.min(0.5, 1 - askedChain);
+  const swapShare = problem.trySwap === undefined ? 0 : askedSwap;
+  const chainShare = problem.tryChain === undefined ? 0 : askedChain;
   const growth = options.growth ?? 2;
   const endShare = options.endShare ?? 0.01;
   if (
     !(growth >= 1) ||
     !(endShare > 0 && endShare <= 1) ||
-    !(swapShare >= 0 && chainShare >= 0 && swapShare + chainShare <= 1)
+    !(askedSwap >= 0 && askedChain >= 0 && askedSwap + askedChain <= 1 + 1e-12)
   ) {
     throw new SlotwrightError(
       'bad_argument',

@@ -156,6 +156,43 @@ describe('anneal (engine simulated annealing over a problem that prices its own 
     expect(seen.length).toBeGreaterThan(5);
   });
 
+  it('offers chain moves in the share asked for, and only to a problem that has them', () => {
+    const { cost, forbidden, start } = instance(10, 9);
+    const p = new Placement(cost, forbidden, start);
+    let chains = 0;
+    // a "chain" here is a three-cycle of slots: a compound move the engine knows nothing about
+    const chained = Object.assign(p, {
+      tryChain(v: number, b: number, accept: (d: number) => boolean): boolean {
+        chains++;
+        const u = p.itemAt[b]!;
+        const w = p.itemAt[(b + 1) % p.size]!;
+        if (new Set([v, u, w]).size < 3) return false;
+        // v -> slot of u, u -> slot of w, w -> slot of v, as two swaps priced together
+        let d = 0;
+        const ok1 = p.trySwap(v, u, (x) => {
+          d += x;
+          return true;
+        });
+        const ok2 = ok1 && p.trySwap(v, w, (x) => {
+          d += x;
+          return true;
+        });
+        if (ok1 && ok2 && accept(d)) return true;
+        if (ok2) p.trySwap(v, w, () => true);
+        if (ok1) p.trySwap(v, u, () => true);
+        return false;
+      },
+    });
+    const res = anneal(chained, { budget: { nodes: 4000 }, seed: 4, swapShare: 0.25, chainShare: 0.5 });
+    // about half the moves are chains (a fixed seed, so the count is exact; the bounds allow a 10% band)
+    expect(chains).toBeGreaterThan(1800);
+    expect(chains).toBeLessThan(2200);
+    expect(p.feasible()).toBe(true);
+    expect(res.cost).toBe(p.recomputed());
+    const none = anneal(new Placement(cost, forbidden, start), { budget: { nodes: 100 }, chainShare: 0.9 });
+    expect(none.moves).toBe(100);
+  });
+
   it('follows a time budget on the given clock', () => {
     const { cost, forbidden, start } = instance(7, 10);
     let now = 0;
@@ -175,5 +212,6 @@ describe('anneal (engine simulated annealing over a problem that prices its own 
     expect(() => anneal(p, { budget: { timeMs: 10 } })).toThrow(/clock/);
     expect(() => anneal(p, { budget: { nodes: 10 }, endShare: 0 })).toThrow(/endShare/);
     expect(() => anneal(p, { budget: { nodes: 10 }, startTemperature: -1 })).toThrow(/startTemperature/);
+    expect(() => anneal(p, { budget: { nodes: 10 }, swapShare: 0.6, chainShare: 0.6 })).toThrow(/sum/);
   });
 });

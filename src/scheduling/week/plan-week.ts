@@ -59,7 +59,7 @@ export interface PlanWeekOptions {
   readonly moves?: number;
   /**
    * Annealing settings passed to the engine (temperatures, round growth, shares of swaps and chain
-   * moves). @default swapShare 0.2 and chainShare 0.5 (tuned on the benchmark weeks), the rest the engine's
+   * moves). @default swapShare 0.3 and chainShare 0.2 (tuned on the benchmark weeks), the rest the engine's
    */
   readonly annealing?: Pick<
     AnnealOptions,
@@ -290,8 +290,8 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
         ...(timed ? { timeMs: r, clock } : {}),
       },
       seed: o.seed,
-      swapShare: 0.2,
-      chainShare: 0.5,
+      swapShare: 0.3,
+      chainShare: 0.2,
       ...o.annealing,
       onProgress: (p) => report('improve', Math.min(best, p.best)),
     });

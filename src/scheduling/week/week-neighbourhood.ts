@@ -19,8 +19,10 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   /** Per value with a room: the variable holding it, or -1. */
   readonly #holder: Int32Array;
   readonly #noRoom: number;
-  /** Variables whose session starts at each cell (kept for chain moves). */
-  readonly #atCell: number[][];
+  /** Per attendee x cell: the variable whose session covers it, or -1 (kept for chain moves). */
+  readonly #who: Int32Array;
+  /** Variable of each session in the search. */
+  readonly #variableOf: Map<number, number>;
   /** Rooms each series may take (empty when it needs none). */
   readonly #roomsOf: readonly Int32Array[];
   /** Chain scratch: the chain's stamp per variable, its members and their sides and old values. */
@@ -29,6 +31,8 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #members: number[] = [];
   readonly #side: number[] = [];
   readonly #olds: number[] = [];
+  readonly #news: number[] = [];
+  readonly #ids: number[] = [];
   #cost: number;
 
   /** `sessions` are the session indexes to move; the scorer must hold a plan without clashes. */
@@ -44,7 +48,8 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     });
     this.#holder = new Int32Array(this.#values).fill(-1);
     this.#noRoom = space.request.rooms.length;
-    this.#atCell = space.request.cells.map(() => []);
+    this.#who = new Int32Array(space.request.attendees.length * space.request.cells.length).fill(-1);
+    this.#variableOf = new Map(Array.from(sessions, (session, v) => [session, v]));
     this.#roomsOf = space.request.series.map((_, s) => Int32Array.from(space.roomsFor(s)));
     this.#mark = new Int32Array(sessions.length);
     this.#cost = scorer.total();
@@ -53,25 +58,33 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
 
   #hold(): void {
     this.#holder.fill(-1);
-    for (const list of this.#atCell) list.length = 0;
+    this.#who.fill(-1);
     for (let v = 0; v < this.size; v++) this.#take(v, this.value(v));
   }
 
   #take(variable: number, value: number): void {
     if (value < 0) return;
     if (this.#space.roomOf(value) !== this.#noRoom) this.#holder[value] = variable;
-    this.#atCell[this.#space.cellOf(value)]!.push(variable);
+    this.#cover(variable, value, variable, -1);
+  }
+
+  /** Writes `to` over the attendee-cells the variable's session covers at `value` that hold `from`. */
+  #cover(variable: number, value: number, to: number, from: number): void {
+    const sp = this.#space;
+    const ser = sp.request.series[sp.sessionSeries[this.#sessions[variable]!]!]!;
+    const C = sp.request.cells.length;
+    const c = sp.cellOf(value);
+    for (const a of ser.attendees)
+      for (let k = 0; k < ser.length; k++) {
+        const i = a * C + c + k;
+        if (from < 0 || this.#who[i] === from) this.#who[i] = to;
+      }
   }
 
   #drop(variable: number, value: number): void {
     if (value < 0) return;
     if (this.#holder[value] === variable) this.#holder[value] = -1;
-    const list = this.#atCell[this.#space.cellOf(value)]!;
-    const k = list.indexOf(variable);
-    if (k >= 0) {
-      list[k] = list[list.length - 1]!;
-      list.pop();
-    }
+    this.#cover(variable, value, -1, variable);
   }
 
   value(variable: number): number {
@@ -174,45 +187,69 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     members.push(variable);
     side.push(0);
     this.#mark[variable] = stamp;
+    const C = req.cells.length;
+    const who = this.#who;
     for (let k = 0; k < members.length; k++) {
       const x = members[k]!;
-      const xs = req.series[sp.sessionSeries[this.#sessions[x]!]!]!;
-      const there = this.#atCell[side[k] === 0 ? p2 : p1]!;
-      for (const y of there) {
-        if (this.#mark[y] === stamp) continue;
-        const ys = req.series[sp.sessionSeries[this.#sessions[y]!]!]!;
-        if (xs !== ys && !sharesAttendee(xs.attendees, ys.attendees)) continue;
-        if (ys.length !== length || members.length >= 32) return false;
+      const sx = this.#sessions[x]!;
+      const xs = req.series[sp.sessionSeries[sx]!]!;
+      const other = side[k] === 0 ? p2 : p1;
+      // whoever holds one of x's attendees at the other start (a plan without clashes has at most one
+      // session per attendee and cell); a series without attendees only meets its own sessions
+      const atts = xs.attendees;
+      const sibling = atts.length === 0 ? sp.seriesFirst[sp.sessionSeries[sx]!]! : 0;
+      const count = atts.length === 0 ? xs.sessions : atts.length;
+      for (let i = 0; i < count; i++) {
+        let y: number;
+        if (atts.length > 0) {
+          y = -1;
+          for (let c = 0; c < length && y < 0; c++) y = who[atts[i]! * C + other + c]!;
+        } else {
+          y = this.#variableOf.get(sibling + i) ?? -1;
+          if (y >= 0 && sp.cellOf(sc.valueOf(sibling + i)) !== other) y = -1;
+        }
+        if (y < 0 || this.#mark[y] === stamp) continue;
+        const sy = this.#sessions[y]!;
+        if (sp.cellOf(sc.valueOf(sy)) !== other) return false;
+        if (req.series[sp.sessionSeries[sy]!]!.length !== length || members.length >= 32) return false;
         this.#mark[y] = stamp;
         members.push(y);
         side.push(1 - side[k]!);
       }
     }
-    // the chain must leave p1 for p2 only if every member fits its new start
+    // feasibility first, with plain moves: every member out, then each into its new start
     const olds = this.#olds;
+    const news = this.#news;
+    const ids = this.#ids;
     olds.length = 0;
-    let d = 0;
+    news.length = 0;
+    ids.length = 0;
     for (const m of members) {
       const session = this.#sessions[m]!;
+      ids.push(session);
       olds.push(sc.valueOf(session));
-      d += sc.applyDelta(session, -1);
+      sc.set(session, -1);
     }
     let placed = 0;
     for (; placed < members.length; placed++) {
-      const m = members[placed]!;
-      const session = this.#sessions[m]!;
+      const session = ids[placed]!;
       const w = this.#roomAt(session, side[placed] === 0 ? p2 : p1, sp.roomOf(olds[placed]!));
       if (w < 0) break;
-      d += sc.applyDelta(session, w);
+      sc.set(session, w);
+      news.push(w);
     }
-    if (placed === members.length && accept(d)) {
+    for (let k = 0; k < placed; k++) sc.set(ids[k]!, -1);
+    for (let k = 0; k < members.length; k++) sc.set(ids[k]!, olds[k]!);
+    if (placed < members.length) return false;
+    // then the price of the whole exchange, each touched series and attendee-day counted once
+    const d = sc.moveAll(ids, news, ids.length);
+    if (accept(d)) {
       this.#cost += d;
       for (let k = 0; k < members.length; k++) this.#drop(members[k]!, olds[k]!);
-      for (const m of members) this.#take(m, sc.valueOf(this.#sessions[m]!));
+      for (let k = 0; k < members.length; k++) this.#take(members[k]!, news[k]!);
       return true;
     }
-    for (let k = 0; k < placed; k++) sc.set(this.#sessions[members[k]!]!, -1);
-    for (let k = 0; k < members.length; k++) sc.set(this.#sessions[members[k]!]!, olds[k]!);
+    sc.moveAll(ids, olds, ids.length);
     return false;
   }
 
@@ -240,9 +277,4 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#cost = sc.total();
     this.#hold();
   }
-}
-
-function sharesAttendee(a: readonly number[], b: readonly number[]): boolean {
-  for (let i = 0; i < a.length; i++) for (let j = 0; j < b.length; j++) if (a[i] === b[j]) return true;
-  return false;
 }

@@ -83,6 +83,13 @@ export class WeekScorer {
   readonly #roomOcc: Uint16Array;
   /** Room-cells with more than one session (each extra session counts once). */
   #roomClashes = 0;
+  /** Scratch of moveAll: marks per series and attendee, and the touched ones. */
+  #stamp = 0;
+  readonly #seriesMark: Int32Array;
+  readonly #attendeeMark: Int32Array;
+  readonly #touchedSeries: number[] = [];
+  readonly #touchedAttendees: number[] = [];
+  readonly #touchedDays: number[] = [];
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -101,6 +108,8 @@ export class WeekScorer {
     this.#seriesDay = new Uint16Array(S * req.days);
     this.#seriesRoom = new Uint16Array(S * RS);
     this.#roomOcc = new Uint16Array(RS * C);
+    this.#seriesMark = new Int32Array(S);
+    this.#attendeeMark = new Int32Array(A);
     this.#prefDays = new Float64Array(S * C);
     this.#prefHours = new Float64Array(S * C);
     this.#usual = new Float64Array(S * C);
@@ -371,6 +380,69 @@ export class WeekScorer {
     const before = this.#localOf(s, d0, d1) + (old >= 0 ? this.#unaryOf(s, old) : 0);
     this.set(session, value);
     return this.#localOf(s, d0, d1) + (value >= 0 ? this.#unaryOf(s, value) : 0) - before;
+  }
+
+  /**
+   * Moves `count` sessions at once (`sessions[k]` to `values[k]`, -1 = out) and returns the change of
+   * the preference cost, pricing each touched series and each touched attendee-day once; clashes are
+   * not priced. The moves are made in order.
+   */
+  moveAll(sessions: ArrayLike<number>, values: ArrayLike<number>, count: number): number {
+    const sp = this.#space;
+    const cells = sp.request.cells;
+    const stamp = ++this.#stamp;
+    const series = this.#touchedSeries;
+    const atts = this.#touchedAttendees;
+    const days = this.#touchedDays;
+    series.length = 0;
+    atts.length = 0;
+    days.length = 0;
+    let unary = 0;
+    for (let k = 0; k < count; k++) {
+      const session = sessions[k]!;
+      const s = sp.sessionSeries[session]!;
+      const old = this.#value[session]!;
+      const value = values[k]!;
+      if (old >= 0) {
+        unary -= this.#unaryOf(s, old);
+        const d = cells[sp.cellOf(old)]!.day;
+        if (!days.includes(d)) days.push(d);
+      }
+      if (value >= 0) {
+        unary += this.#unaryOf(s, value);
+        const d = cells[sp.cellOf(value)]!.day;
+        if (!days.includes(d)) days.push(d);
+      }
+      if (this.#seriesMark[s] !== stamp) {
+        this.#seriesMark[s] = stamp;
+        series.push(s);
+        if (this.#isolatedWeight > 0)
+          for (const a of this.#compact[s]!) {
+            if (this.#attendeeMark[a] !== stamp) {
+              this.#attendeeMark[a] = stamp;
+              atts.push(a);
+            }
+          }
+      }
+    }
+    const before = this.#touchedCost();
+    for (let k = 0; k < count; k++) this.set(sessions[k]!, values[k]!);
+    return this.#touchedCost() - before + unary;
+  }
+
+  /** Series and attendee-day costs of what `moveAll` touches. */
+  #touchedCost(): number {
+    let c = 0;
+    const series = this.#touchedSeries;
+    const atts = this.#touchedAttendees;
+    const days = this.#touchedDays;
+    for (let i = 0; i < series.length; i++) {
+      const s = series[i]!;
+      c += this.#spreadOf(s) + this.#roomStabilityOf(s) + this.#movesOf(s);
+    }
+    for (let i = 0; i < atts.length; i++)
+      for (let j = 0; j < days.length; j++) c += this.#isolatedOn(atts[i]!, days[j]!);
+    return c;
   }
 
   /**
