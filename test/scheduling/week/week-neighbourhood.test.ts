@@ -132,3 +132,32 @@ describe('WeekNeighbourhood chain moves', () => {
     expect([p.value(0), p.value(1), p.value(2)]).toEqual([0, 1, 0]);
   });
 });
+
+describe('WeekScorer.moveAll', () => {
+  it('prices several sessions moved at once exactly as a fresh count of the plans before and after', () => {
+    const req = syntheticWeek({ series: 50, people: 30, rooms: 5, seed: 12 });
+    const start = planWeek(req, { moves: 0, seed: 12 });
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    scorer.load(start.values);
+    const rng = new Prng(12);
+    const fresh = new WeekScorer(space);
+    for (let round = 0; round < 40; round++) {
+      const ids: number[] = [];
+      const values: number[] = [];
+      for (let k = 0; k < 1 + rng.int(6); k++) {
+        const session = rng.int(space.sessionCount);
+        if (ids.includes(session)) continue;
+        const cand = space.candidates[space.sessionSeries[session]!]!;
+        ids.push(session);
+        // now and then a session is taken out of the plan
+        values.push(rng.next() < 0.1 ? -1 : cand[rng.int(cand.length)]!);
+      }
+      fresh.load(Array.from({ length: space.sessionCount }, (_, i) => scorer.valueOf(i)));
+      const before = fresh.total();
+      const d = scorer.moveAll(ids, values, ids.length);
+      fresh.load(Array.from({ length: space.sessionCount }, (_, i) => scorer.valueOf(i)));
+      expect(d).toBeCloseTo(fresh.total() - before, 6);
+    }
+  });
+});
