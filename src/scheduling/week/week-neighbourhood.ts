@@ -134,17 +134,24 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     if (va === vb) return false;
     if (this.#allowed[serA * this.#values + vb] !== 1 || this.#allowed[serB * this.#values + va] !== 1)
       return false;
-    // feasibility first, with plain moves: `a` out, `b` into its place, `a` where `b` was
-    sc.set(sa, -1);
-    if (!sc.freeFor(sb, va)) {
+    // feasibility first, without moving: each fits where the other was once the other is gone; when
+    // the two new places overlap in time, by plain moves (`a` out, `b` into its place, `a` where `b` was)
+    const ca = sp.cellOf(va);
+    const cb = sp.cellOf(vb);
+    const la = lengthOf(sp, serA);
+    const lb = lengthOf(sp, serB);
+    if (cb < ca + lb && ca < cb + la) {
+      sc.set(sa, -1);
+      if (!sc.freeFor(sb, va)) {
+        sc.set(sa, va);
+        return false;
+      }
+      sc.set(sb, va);
+      const fits = sc.freeFor(sa, vb);
+      sc.set(sb, vb);
       sc.set(sa, va);
-      return false;
-    }
-    sc.set(sb, va);
-    const fits = sc.freeFor(sa, vb);
-    sc.set(sb, vb);
-    sc.set(sa, va);
-    if (!fits) return false;
+      if (!fits) return false;
+    } else if (!sc.freeForExcept(sa, vb, sb) || !sc.freeForExcept(sb, va, sa)) return false;
     // then the price, by the same three steps
     let d = sc.applyDelta(sa, -1);
     d += sc.applyDelta(sb, va);
@@ -277,4 +284,9 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#cost = sc.total();
     this.#hold();
   }
+}
+
+/** Length in cells of a series' sessions. */
+function lengthOf(space: WeekSpace, series: number): number {
+  return space.request.series[series]!.length;
 }

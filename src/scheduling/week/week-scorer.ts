@@ -64,6 +64,10 @@ export class WeekScorer {
   readonly #seriesDay: Uint16Array;
   /** Sessions of each series x room slot. */
   readonly #seriesRoom: Uint16Array;
+  /** Per series: placed sessions, distinct days and distinct room slots in use. */
+  readonly #seriesPlaced: Int32Array;
+  readonly #seriesDays: Int32Array;
+  readonly #seriesRooms: Int32Array;
   /** Per series x start cell: day, hour, usual-hours and rule costs. */
   readonly #prefDays: Float64Array;
   readonly #prefHours: Float64Array;
@@ -109,6 +113,9 @@ export class WeekScorer {
     this.#seriesRoom = new Uint16Array(S * RS);
     this.#roomOcc = new Uint16Array(RS * C);
     this.#seriesMark = new Int32Array(S);
+    this.#seriesPlaced = new Int32Array(S);
+    this.#seriesDays = new Int32Array(S);
+    this.#seriesRooms = new Int32Array(S);
     this.#attendeeMark = new Int32Array(A);
     this.#prefDays = new Float64Array(S * C);
     this.#prefHours = new Float64Array(S * C);
@@ -179,6 +186,9 @@ export class WeekScorer {
     this.#starts.fill(0);
     this.#seriesDay.fill(0);
     this.#seriesRoom.fill(0);
+    this.#seriesPlaced.fill(0);
+    this.#seriesDays.fill(0);
+    this.#seriesRooms.fill(0);
     this.#value.fill(-1);
     this.#clashes = 0;
     this.#roomOcc.fill(0);
@@ -210,9 +220,10 @@ export class WeekScorer {
       this.#starts[a * C + c]!++;
       for (let k = 0; k < ser.length; k++) if (this.#occ[a * C + c + k]!++ > 0) this.#clashes++;
     }
-    this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!++;
+    if (this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!++ === 0) this.#seriesDays[s]!++;
     const r = sp.roomOf(v);
-    this.#seriesRoom[s * this.#RS + r]!++;
+    if (this.#seriesRoom[s * this.#RS + r]!++ === 0) this.#seriesRooms[s]!++;
+    this.#seriesPlaced[s]!++;
     if (r !== this.#RS - 1)
       for (let k = 0; k < ser.length; k++) if (this.#roomOcc[r * C + c + k]!++ > 0) this.#roomClashes++;
     this.#value[i] = v;
@@ -229,9 +240,10 @@ export class WeekScorer {
       this.#starts[a * C + c]!--;
       for (let k = 0; k < ser.length; k++) if (--this.#occ[a * C + c + k]! > 0) this.#clashes--;
     }
-    this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!--;
+    if (--this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]! === 0) this.#seriesDays[s]!--;
     const r = sp.roomOf(v);
-    this.#seriesRoom[s * this.#RS + r]!--;
+    if (--this.#seriesRoom[s * this.#RS + r]! === 0) this.#seriesRooms[s]!--;
+    this.#seriesPlaced[s]!--;
     if (r !== this.#RS - 1)
       for (let k = 0; k < ser.length; k++) if (--this.#roomOcc[r * C + c + k]! > 0) this.#roomClashes--;
     this.#value[i] = -1;
@@ -259,25 +271,14 @@ export class WeekScorer {
     return cost * this.#isolatedWeight;
   }
 
-  #placedOf(s: number): number {
-    let n = 0;
-    for (let i = this.#space.seriesFirst[s]!; i < this.#space.seriesFirst[s + 1]!; i++)
-      if (this.#value[i]! >= 0) n++;
-    return n;
-  }
-
   #spreadOf(s: number): number {
-    if (this.#placedOf(s) === 0) return 0;
-    let days = 0;
-    for (let d = 0; d < this.#D; d++) if (this.#seriesDay[s * this.#D + d]! > 0) days++;
-    return Math.max(0, this.#space.request.series[s]!.minDays - days) * this.#w(s, 'spread');
+    if (this.#seriesPlaced[s] === 0) return 0;
+    return Math.max(0, this.#space.request.series[s]!.minDays - this.#seriesDays[s]!) * this.#w(s, 'spread');
   }
 
   #roomStabilityOf(s: number): number {
     if (this.#space.request.series[s]!.room === undefined) return 0;
-    let rooms = 0;
-    for (let r = 0; r < this.#RS; r++) if (this.#seriesRoom[s * this.#RS + r]! > 0) rooms++;
-    return Math.max(0, rooms - 1) * this.#w(s, 'roomStability');
+    return Math.max(0, this.#seriesRooms[s]! - 1) * this.#w(s, 'roomStability');
   }
 
   #movesOf(s: number): number {
@@ -443,6 +444,54 @@ export class WeekScorer {
     for (let i = 0; i < atts.length; i++)
       for (let j = 0; j < days.length; j++) c += this.#isolatedOn(atts[i]!, days[j]!);
     return c;
+  }
+
+  /**
+   * True when `session` could take `value` with `other` gone from its present place: the test half
+   * of exchanging two sessions, made without moving either.
+   */
+  freeForExcept(session: number, value: number, other: number): boolean {
+    const sp = this.#space;
+    const ser = sp.request.series[sp.sessionSeries[session]!]!;
+    const oser = sp.request.series[sp.sessionSeries[other]!]!;
+    const L = ser.length;
+    const OL = oser.length;
+    const C = this.#C;
+    const c = sp.cellOf(value);
+    const r = sp.roomOf(value);
+    const old = this.#value[session]!;
+    const oc = old >= 0 ? sp.cellOf(old) : -1;
+    const or = old >= 0 ? sp.roomOf(old) : -1;
+    const ov = this.#value[other]!;
+    const tc = ov >= 0 ? sp.cellOf(ov) : -1;
+    const tr = ov >= 0 ? sp.roomOf(ov) : -1;
+    const atts = ser.attendees;
+    const oatts = oser.attendees;
+    for (let k = 0; k < L; k++) {
+      const cell = c + k;
+      const mine = oc >= 0 && cell >= oc && cell < oc + L ? 1 : 0;
+      const theirs = tc >= 0 && cell >= tc && cell < tc + OL ? 1 : 0;
+      for (let i = 0; i < atts.length; i++) {
+        const a = atts[i]!;
+        let held = this.#occ[a * C + cell]! - mine;
+        if (theirs === 1 && oatts.includes(a)) held--;
+        if (held > 0) return false;
+      }
+      if (r !== this.#RS - 1) {
+        const held = this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) - (tr === r ? theirs : 0);
+        if (held > 0) return false;
+      }
+    }
+    if (atts.length === 0) {
+      const s = sp.sessionSeries[session]!;
+      for (let j = sp.seriesFirst[s]!; j < sp.seriesFirst[s + 1]!; j++) {
+        const w = this.#value[j]!;
+        if (j === session || j === other || w < 0) continue;
+        const wc = sp.cellOf(w);
+        if (wc < c + L && c < wc + L) return false;
+      }
+    }
+    return true;
   }
 
   /**
