@@ -63,6 +63,14 @@ export interface AnnealOptions {
   readonly startTemperature?: number;
   /** Temperature at the end of the cooling, as a share of the start. @default 0.01 */
   readonly endShare?: number;
+  /** A cost no assignment can beat (the search stops on reaching it). @default none */
+  readonly lowerBound?: number;
+  /**
+   * Stop when this many moves in a row found no better assignment: a small problem has settled long
+   * before a generous time budget ends, and an answer in chat should not wait for the clock.
+   * @default 200000 + 50000 x size
+   */
+  readonly stallMoves?: number;
   /** Called about every 4096 moves and at the end. */
   readonly onProgress?: (p: AnnealProgress) => void;
 }
@@ -142,10 +150,13 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
   let moves = 0;
   let accepted = 0;
   let rounds = 0;
-  let stopped = n === 0 || limit <= 0 || b.signal?.aborted === true;
+  const lowerBound = options.lowerBound ?? Number.NEGATIVE_INFINITY;
+  const stallMoves = options.stallMoves ?? 200_000 + 50_000 * n;
+  let lastBest = 0;
+  let stopped = n === 0 || limit <= 0 || b.signal?.aborted === true || startCost <= lowerBound;
   const out = (): boolean => {
     if (stopped) return true;
-    if (moves >= limit) stopped = true;
+    if (moves >= limit || moves - lastBest >= stallMoves) stopped = true;
     else if (moves % CHECK_EVERY === 0) {
       if (b.signal?.aborted === true) stopped = true;
       else if (clock !== undefined && clock() >= deadline) stopped = true;
@@ -212,7 +223,9 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
   const note = (): void => {
     if (cost < bestCost - 1e-9) {
       bestCost = cost;
+      lastBest = moves;
       for (let v = 0; v < n; v++) best[v] = problem.value(v);
+      if (bestCost <= lowerBound) stopped = true;
     }
   };
   const step = (): void => {

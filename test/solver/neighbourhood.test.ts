@@ -173,10 +173,12 @@ describe('anneal (engine simulated annealing over a problem that prices its own 
           d += x;
           return true;
         });
-        const ok2 = ok1 && p.trySwap(v, w, (x) => {
-          d += x;
-          return true;
-        });
+        const ok2 =
+          ok1 &&
+          p.trySwap(v, w, (x) => {
+            d += x;
+            return true;
+          });
         if (ok1 && ok2 && accept(d)) return true;
         if (ok2) p.trySwap(v, w, () => true);
         if (ok1) p.trySwap(v, u, () => true);
@@ -191,6 +193,26 @@ describe('anneal (engine simulated annealing over a problem that prices its own 
     expect(res.cost).toBe(p.recomputed());
     const none = anneal(new Placement(cost, forbidden, start), { budget: { nodes: 100 }, chainShare: 0.9 });
     expect(none.moves).toBe(100);
+  });
+
+  it('stops on reaching the lower bound, and when a long run of moves finds nothing better', () => {
+    const { cost, forbidden, start } = instance(11, 8);
+    const optimum = bruteForce(cost, forbidden);
+    const atBound = anneal(new Placement(cost, forbidden, start), {
+      budget: { nodes: 10_000_000 },
+      seed: 1,
+      lowerBound: optimum,
+    });
+    expect(atBound.cost).toBe(optimum);
+    expect(atBound.moves).toBeLessThan(10_000_000);
+    // without a bound, the stall rule ends a run whose budget is far more than it needs
+    const stalled = anneal(new Placement(cost, forbidden, start), {
+      budget: { nodes: 10_000_000 },
+      seed: 1,
+      stallMoves: 20_000,
+    });
+    expect(stalled.cost).toBe(optimum);
+    expect(stalled.moves).toBeLessThan(1_000_000);
   });
 
   it('follows a time budget on the given clock', () => {

@@ -290,6 +290,8 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
         ...(timed ? { timeMs: r, clock } : {}),
       },
       seed: o.seed,
+      // preference costs are never negative: a plan at 0 cannot be beaten
+      lowerBound: 0,
       swapShare: 0.3,
       chainShare: 0.2,
       ...o.annealing,
