@@ -192,13 +192,9 @@ function addRoomRules(
  * Builds the model the local search moves in: one start x room variable per session (room slot
  * "none" for sessions without a room). Sessions sharing an attendee or a series may not overlap
  * (a predicate on the two values: the engine's local search evaluates it directly); two sessions in
- * one room may not overlap (not-equal with offsets), unless `rooms` is false.
+ * one room may not overlap (not-equal with offsets).
  */
-export function buildImproveModel(
-  space: WeekSpace,
-  series: readonly number[],
-  options: { readonly rooms?: boolean } = {},
-): WeekModel {
+export function buildImproveModel(space: WeekSpace, series: readonly number[]): WeekModel {
   const req = space.request;
   const RS = space.roomSlots;
   const size = req.cells.length * RS;
@@ -235,11 +231,9 @@ export function buildImproveModel(
     b.addBinary(valueVar[i]!, valueVar[j]!, predicate(lengthOf(i), lengthOf(j)), {
       name: pairGroup(space, space.sessionSeries[i]!, space.sessionSeries[j]!),
     });
-  // pairwise room rules: an all-different over hundreds of sessions is slow to re-check per move;
-  // with `rooms: false` the caller counts room clashes itself (the scorer's room occupancy)
-  if (options.rooms !== false)
-    for (const [i, j] of roomPairs(space, series))
-      addNoOverlap(b, valueVar[i]!, valueVar[j]!, lengthOf(i), lengthOf(j), RS, { name: ROOM_GROUP });
+  // pairwise room rules: an all-different over hundreds of sessions is slow to re-check per move
+  for (const [i, j] of roomPairs(space, series))
+    addNoOverlap(b, valueVar[i]!, valueVar[j]!, lengthOf(i), lengthOf(j), RS, { name: ROOM_GROUP });
   return {
     model: b.build(),
     sessions: Int32Array.from(sessions),

@@ -346,24 +346,14 @@ export class WeekScorer {
   delta(session: number, value: number, clashWeight = 0, roomClashWeight = 0): number {
     const old = this.#value[session]!;
     if (old === value) return 0;
-    const sp = this.#space;
-    const s = sp.sessionSeries[session]!;
-    const cells = sp.request.cells;
-    const d0 = old >= 0 ? cells[sp.cellOf(old)]!.day : -1;
-    const d1 = value >= 0 ? cells[sp.cellOf(value)]!.day : -1;
-    const before =
-      this.#localOf(s, d0, d1) +
-      (old >= 0 ? this.#unaryOf(s, old) : 0) +
-      this.#clashes * clashWeight +
-      this.#roomClashes * roomClashWeight;
-    this.set(session, value);
-    const after =
-      this.#localOf(s, d0, d1) +
-      (value >= 0 ? this.#unaryOf(s, value) : 0) +
-      this.#clashes * clashWeight +
-      this.#roomClashes * roomClashWeight;
+    const clashes = this.#clashes;
+    const roomClashes = this.#roomClashes;
+    const d =
+      this.applyDelta(session, value) +
+      (this.#clashes - clashes) * clashWeight +
+      (this.#roomClashes - roomClashes) * roomClashWeight;
     this.set(session, old);
-    return after - before;
+    return d;
   }
 
   /**
@@ -451,47 +441,7 @@ export class WeekScorer {
    * of exchanging two sessions, made without moving either.
    */
   freeForExcept(session: number, value: number, other: number): boolean {
-    const sp = this.#space;
-    const ser = sp.request.series[sp.sessionSeries[session]!]!;
-    const oser = sp.request.series[sp.sessionSeries[other]!]!;
-    const L = ser.length;
-    const OL = oser.length;
-    const C = this.#C;
-    const c = sp.cellOf(value);
-    const r = sp.roomOf(value);
-    const old = this.#value[session]!;
-    const oc = old >= 0 ? sp.cellOf(old) : -1;
-    const or = old >= 0 ? sp.roomOf(old) : -1;
-    const ov = this.#value[other]!;
-    const tc = ov >= 0 ? sp.cellOf(ov) : -1;
-    const tr = ov >= 0 ? sp.roomOf(ov) : -1;
-    const atts = ser.attendees;
-    const oatts = oser.attendees;
-    for (let k = 0; k < L; k++) {
-      const cell = c + k;
-      const mine = oc >= 0 && cell >= oc && cell < oc + L ? 1 : 0;
-      const theirs = tc >= 0 && cell >= tc && cell < tc + OL ? 1 : 0;
-      for (let i = 0; i < atts.length; i++) {
-        const a = atts[i]!;
-        let held = this.#occ[a * C + cell]! - mine;
-        if (theirs === 1 && oatts.includes(a)) held--;
-        if (held > 0) return false;
-      }
-      if (r !== this.#RS - 1) {
-        const held = this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) - (tr === r ? theirs : 0);
-        if (held > 0) return false;
-      }
-    }
-    if (atts.length === 0) {
-      const s = sp.sessionSeries[session]!;
-      for (let j = sp.seriesFirst[s]!; j < sp.seriesFirst[s + 1]!; j++) {
-        const w = this.#value[j]!;
-        if (j === session || j === other || w < 0) continue;
-        const wc = sp.cellOf(w);
-        if (wc < c + L && c < wc + L) return false;
-      }
-    }
-    return true;
+    return this.#fits(session, value, other);
   }
 
   /**
@@ -499,6 +449,11 @@ export class WeekScorer {
    * attendees, of its room, or of its own series (its own present place does not count).
    */
   freeFor(session: number, value: number): boolean {
+    return this.#fits(session, value, -1);
+  }
+
+  /** The check of `freeFor`, with `other` (when >= 0) also left out of the count. */
+  #fits(session: number, value: number, other: number): boolean {
     const sp = this.#space;
     const s = sp.sessionSeries[session]!;
     const ser = sp.request.series[s]!;
@@ -509,17 +464,31 @@ export class WeekScorer {
     const old = this.#value[session]!;
     const oc = old >= 0 ? sp.cellOf(old) : -1;
     const or = old >= 0 ? sp.roomOf(old) : -1;
+    const ov = other >= 0 ? this.#value[other]! : -1;
+    const oser = ov >= 0 ? sp.request.series[sp.sessionSeries[other]!]! : undefined;
+    const tc = ov >= 0 ? sp.cellOf(ov) : -1;
+    const tr = ov >= 0 ? sp.roomOf(ov) : -1;
+    const OL = oser?.length ?? 0;
     const atts = ser.attendees;
     for (let k = 0; k < L; k++) {
       const cell = c + k;
       const mine = oc >= 0 && cell >= oc && cell < oc + L ? 1 : 0;
-      for (let i = 0; i < atts.length; i++) if (this.#occ[atts[i]! * C + cell]! - mine > 0) return false;
-      if (r !== this.#RS - 1 && this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) > 0) return false;
+      const theirs = tc >= 0 && cell >= tc && cell < tc + OL ? 1 : 0;
+      for (let i = 0; i < atts.length; i++) {
+        const a = atts[i]!;
+        let held = this.#occ[a * C + cell]! - mine;
+        if (theirs === 1 && oser!.attendees.includes(a)) held--;
+        if (held > 0) return false;
+      }
+      if (r !== this.#RS - 1) {
+        const held = this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) - (tr === r ? theirs : 0);
+        if (held > 0) return false;
+      }
     }
     if (atts.length === 0) {
       for (let j = sp.seriesFirst[s]!; j < sp.seriesFirst[s + 1]!; j++) {
         const w = this.#value[j]!;
-        if (j === session || w < 0) continue;
+        if (j === session || j === other || w < 0) continue;
         const wc = sp.cellOf(w);
         if (wc < c + L && c < wc + L) return false;
       }
