@@ -323,28 +323,20 @@ class FeedReader {
 
   /** Whether the owner declined this event (ATTENDEE with PARTSTAT=DECLINED). */
   declined(comp: IcalComponent): boolean {
-    if (this.#ownerEmail === undefined) return false;
-    for (const p of comp.getAllProperties('attendee')) {
-      const v = p.getFirstValue();
-      if (typeof v !== 'string') continue;
-      const email = v
-        .replace(/^mailto:/i, '')
-        .trim()
-        .toLowerCase();
-      if (email !== this.#ownerEmail) continue;
-      const partstat = p.getParameter('partstat');
-      if (typeof partstat === 'string' && partstat.toUpperCase() === 'DECLINED') return true;
-    }
-    return false;
+    const owner = this.#ownerEmail;
+    if (owner === undefined) return false;
+    return comp
+      .getAllProperties('attendee')
+      .some((p) => declines(owner, p.getFirstValue(), p.getParameter('partstat')));
   }
 
   /** Busy kind of an event, or undefined when it leaves the time free. */
   kindOf(comp: IcalComponent): BusyKind | undefined {
-    const status = String(comp.getFirstPropertyValue('status') ?? '').toUpperCase();
-    const transp = String(comp.getFirstPropertyValue('transp') ?? '').toUpperCase();
-    if (status === 'CANCELLED' || transp === 'TRANSPARENT') return undefined;
-    if (this.declined(comp)) return undefined;
-    return status === 'TENTATIVE' ? 'tentative' : 'busy';
+    return busyKind(
+      String(comp.getFirstPropertyValue('status') ?? ''),
+      String(comp.getFirstPropertyValue('transp') ?? ''),
+      () => this.declined(comp),
+    );
   }
 
   // RFC 5545 section 3.8.5.3: a DTEND gives every instance the same exact duration, a DURATION the
@@ -610,23 +602,14 @@ class FeedReader {
   }
 
   #kindOfJcal(e: JcalEvent): BusyKind | undefined {
-    const status = e.status.toUpperCase();
-    const transp = e.transp.toUpperCase();
-    if (status === 'CANCELLED' || transp === 'TRANSPARENT') return undefined;
-    if (this.#ownerEmail !== undefined) {
-      for (const p of e.attendees) {
-        const v = p[3];
-        if (typeof v !== 'string') continue;
-        const email = v
-          .replace(/^mailto:/i, '')
-          .trim()
-          .toLowerCase();
-        if (email !== this.#ownerEmail) continue;
-        const partstat = (p[1] as Record<string, unknown>).partstat;
-        if (typeof partstat === 'string' && partstat.toUpperCase() === 'DECLINED') return undefined;
-      }
-    }
-    return status === 'TENTATIVE' ? 'tentative' : 'busy';
+    const owner = this.#ownerEmail;
+    return busyKind(
+      e.status,
+      e.transp,
+      () =>
+        owner !== undefined &&
+        e.attendees.some((p) => declines(owner, p[3], (p[1] as Record<string, unknown>).partstat)),
+    );
   }
 
   #lengthOfJcal(e: JcalEvent, start: JcalTime, where: Where): Length | undefined {
@@ -961,4 +944,25 @@ try {
   readFeed(SHAPE_FEED, SHAPE_OPTIONS, SHAPES);
 } catch {
   // Only a matter of speed; reading feeds works the same without it.
+}
+
+/**
+ * Busy kind from STATUS and TRANSP: cancelled, transparent or declined events leave the time free,
+ * tentative ones are `tentative`, the rest `busy`. `declined` is asked only when it matters.
+ */
+function busyKind(status: string, transp: string, declined: () => boolean): BusyKind | undefined {
+  const st = status.toUpperCase();
+  if (st === 'CANCELLED' || transp.toUpperCase() === 'TRANSPARENT') return undefined;
+  if (declined()) return undefined;
+  return st === 'TENTATIVE' ? 'tentative' : 'busy';
+}
+
+/** True when an ATTENDEE value (a mailto address) is the owner's and its PARTSTAT is DECLINED. */
+function declines(owner: string, value: unknown, partstat: unknown): boolean {
+  if (typeof value !== 'string') return false;
+  const email = value
+    .replace(/^mailto:/i, '')
+    .trim()
+    .toLowerCase();
+  return email === owner && typeof partstat === 'string' && partstat.toUpperCase() === 'DECLINED';
 }
