@@ -258,7 +258,6 @@ export function countViolations(
   const R = req.rooms.length;
   const owner = new Map<number, number[]>();
   let count = 0;
-  const candidateSets = space.candidates.map((c) => new Set(c));
   const mark = (i: number) => {
     if (perSession !== undefined) perSession[i]!++;
   };
@@ -267,7 +266,7 @@ export function countViolations(
     if (v < 0) continue;
     const s = space.sessionSeries[i]!;
     const ser = req.series[s]!;
-    if (!candidateSets[s]!.has(v)) {
+    if (!space.allows(s, v)) {
       count++;
       mark(i);
     }

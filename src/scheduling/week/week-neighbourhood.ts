@@ -13,9 +13,6 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #space: WeekSpace;
   readonly #scorer: WeekScorer;
   readonly #sessions: Int32Array;
-  /** Per series x value: 1 when the value is one of the series' candidates. */
-  readonly #allowed: Uint8Array;
-  readonly #values: number;
   /** Per value with a room: the variable holding it, or -1. */
   readonly #holder: Int32Array;
   readonly #noRoom: number;
@@ -41,12 +38,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#scorer = scorer;
     this.#sessions = sessions;
     this.size = sessions.length;
-    this.#values = space.request.cells.length * space.roomSlots;
-    this.#allowed = new Uint8Array(space.request.series.length * this.#values);
-    space.candidates.forEach((cand, s) => {
-      for (const v of cand) this.#allowed[s * this.#values + v] = 1;
-    });
-    this.#holder = new Int32Array(this.#values).fill(-1);
+    this.#holder = new Int32Array(space.request.cells.length * space.roomSlots).fill(-1);
     this.#noRoom = space.request.rooms.length;
     this.#who = new Int32Array(space.request.attendees.length * space.request.cells.length).fill(-1);
     this.#variableOf = new Map(Array.from(sessions, (session, v) => [session, v]));
@@ -132,8 +124,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const va = sc.valueOf(sa);
     const vb = sc.valueOf(sb);
     if (va === vb) return false;
-    if (this.#allowed[serA * this.#values + vb] !== 1 || this.#allowed[serB * this.#values + va] !== 1)
-      return false;
+    if (!sp.allows(serA, vb) || !sp.allows(serB, va)) return false;
     // feasibility first, without moving: each fits where the other was once the other is gone; when
     // the two new places overlap in time, by plain moves (`a` out, `b` into its place, `a` where `b` was)
     const ca = sp.cellOf(va);
@@ -265,14 +256,13 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const sp = this.#space;
     const sc = this.#scorer;
     const s = sp.sessionSeries[session]!;
-    const base = s * this.#values;
     const RS = sp.roomSlots;
     const own = cell * RS + room;
-    if (this.#allowed[base + own] === 1 && sc.freeFor(session, own)) return own;
+    if (sp.allows(s, own) && sc.freeFor(session, own)) return own;
     if (room === this.#noRoom) return -1;
     for (const r of this.#roomsOf[s]!) {
       const w = cell * RS + r;
-      if (r !== room && this.#allowed[base + w] === 1 && sc.freeFor(session, w)) return w;
+      if (r !== room && sp.allows(s, w) && sc.freeFor(session, w)) return w;
     }
     return -1;
   }

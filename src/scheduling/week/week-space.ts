@@ -20,6 +20,9 @@ export class WeekSpace {
   readonly candidates: readonly Int32Array[];
   /** Per cell: true when the cell directly continues the previous one (same day, no gap). */
   readonly continues: Uint8Array;
+  /** Per series x value: 1 when the value is one of the series' candidates. */
+  readonly #allowed: Uint8Array;
+  readonly #valueCount: number;
 
   constructor(request: WeekRequest) {
     this.request = request;
@@ -49,6 +52,16 @@ export class WeekSpace {
       this.continues[i] = prev !== undefined && prev.day === c.day && prev.end === c.start ? 1 : 0;
     });
     this.candidates = request.series.map((_, s) => this.#candidatesOf(s));
+    this.#valueCount = C * this.roomSlots;
+    this.#allowed = new Uint8Array(request.series.length * this.#valueCount);
+    this.candidates.forEach((cand, s) => {
+      for (const v of cand) this.#allowed[s * this.#valueCount + v] = 1;
+    });
+  }
+
+  /** True when `value` is one of the candidates of `series`. */
+  allows(series: number, value: number): boolean {
+    return value >= 0 && value < this.#valueCount && this.#allowed[series * this.#valueCount + value] === 1;
   }
 
   /** Start cell of a value. */
