@@ -2,6 +2,19 @@
 import { SlotwrightError } from '../errors.ts';
 import type { Budget } from './types.ts';
 
+/** Throws on a time budget without a clock or a negative node budget. */
+export function checkBudget(b: Budget): void {
+  if (b.timeMs !== undefined && b.clock === undefined) {
+    throw new SlotwrightError(
+      'bad_argument',
+      'budget.timeMs needs budget.clock (a function returning ms); the solver never reads the clock itself',
+    );
+  }
+  if (b.nodes !== undefined && !(b.nodes >= 0)) {
+    throw new SlotwrightError('bad_argument', `budget.nodes must be >= 0, got ${b.nodes}`);
+  }
+}
+
 /**
  * Counts nodes against a budget. The clock and the signal are read at every step when set: a node can
  * be expensive (ordering thousands of values), so checking only every few hundred overshoots badly.
@@ -20,15 +33,7 @@ export class BudgetMeter {
   /** Reads the limits; throws on a time budget without a clock. */
   constructor(budget: Budget | undefined) {
     const b = budget ?? {};
-    if (b.timeMs !== undefined && b.clock === undefined) {
-      throw new SlotwrightError(
-        'bad_argument',
-        'budget.timeMs needs budget.clock (a function returning ms); the solver never reads the clock itself',
-      );
-    }
-    if (b.nodes !== undefined && !(b.nodes >= 0)) {
-      throw new SlotwrightError('bad_argument', `budget.nodes must be >= 0, got ${b.nodes}`);
-    }
+    checkBudget(b);
     this.#nodeLimit = b.nodes ?? Number.POSITIVE_INFINITY;
     this.#clock = b.clock ?? null;
     this.#signal = b.signal ?? null;

@@ -5,6 +5,7 @@
 // cost cheap: a model-agnostic check of every constraint per move is what makes generic local search
 // slow on large weeks.
 import { SlotwrightError } from '../errors.ts';
+import { checkBudget } from './budget.ts';
 import { Prng } from './prng.ts';
 import type { Budget } from './types.ts';
 
@@ -113,12 +114,7 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
       'anneal needs budget.nodes (moves) or budget.timeMs with budget.clock',
     );
   }
-  if (b.timeMs !== undefined && b.clock === undefined) {
-    throw new SlotwrightError(
-      'bad_argument',
-      'budget.timeMs needs budget.clock (a function returning ms); the solver never reads the clock itself',
-    );
-  }
+  checkBudget(b);
   const n = problem.size;
   const rng = new Prng(options.seed ?? 0);
   const clock = b.clock;
@@ -191,9 +187,9 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
 
   // Starting temperature: three times the smallest worsening among a sample of feasible moves (all
   // undone). The smallest step is the cost's unit; a mean or median would follow the far costlier
-  // moves of a fresh plan and start much too hot.
+  // moves of a fresh plan and start much too hot. No sample when the search will not run.
   let t = options.startTemperature;
-  if (t === undefined) {
+  if (t === undefined && !stopped) {
     let least = Number.POSITIVE_INFINITY;
     let count = 0;
     const sample = (d: number): boolean => {
@@ -204,8 +200,9 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
       return false;
     };
     for (let i = 0; i < 40 * Math.min(n, 500) && count < 200; i++) tryOne(sample);
-    t = count > 0 ? 3 * least : 1;
+    if (count > 0) t = 3 * least;
   }
+  t ??= 1;
   if (!(t > 0) || !Number.isFinite(t)) {
     throw new SlotwrightError('bad_argument', `anneal: startTemperature must be a positive number, got ${t}`);
   }
