@@ -6,28 +6,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { WeekProgressView } from '../../src/app/service.ts';
 import { type OpenedService, openService } from '../../src/main.ts';
 import { openStore, SqlBookingStore, SqlWorkspaceStore } from '../../src/store/index.ts';
+import { WEEK_NOW, weekWorkspaceYaml } from './week-workspace.ts';
 
-// Invented demo people: two in Lisbon, one in Halifax, two rooms.
-const YAML = `name: Saltline Survey Cooperative (week test)
-zone: Europe/Lisbon
-grid: 15
-workingHours: {mon: ["09:00-17:00"], tue: ["09:00-17:00"], wed: ["09:00-17:00"], thu: ["09:00-17:00"], fri: ["09:00-17:00"]}
-admins: [ines]
-people:
-  - {id: ines, name: Ines Carvalhal, email: ines@saltline.example, chat: U0DEMO006, zone: Europe/Lisbon}
-  - {id: rui, name: Rui Teixo, email: rui@saltline.example, chat: U0DEMO007, zone: Europe/Lisbon}
-  - {id: teo, name: Teo Brannigan, email: teo@saltline.example, chat: U0DEMO002, zone: America/Halifax}
-rooms:
-  - {id: tejo, name: Tejo, capacity: 10, features: [screen, phone], zone: Europe/Lisbon}
-  - {id: sounding, name: Sounding, capacity: 3, features: [whiteboard], zone: Europe/Lisbon}
-series:
-  - {id: survey-sync, name: Survey sync, attendees: [ines, rui, teo], minutes: 45, sessions: 2, minDays: 2, room: {features: [phone]}}
-  - {id: ines-rui, name: Ines and Rui one-to-one, attendees: [ines, rui], minutes: 30, room: {features: [whiteboard]}}
-weekPlan: {step: 30}
-`;
+const YAML = weekWorkspaceYaml('Saltline Survey Cooperative (week test)', '{step: 30}');
 const DEMO = join(import.meta.dirname, '..', '..', 'fixtures', 'demo');
-// Tuesday 2026-12-01 18:00 UTC: "next week" is 2026-W50, Monday 2026-12-07.
-const NOW = Date.parse('2026-12-01T18:00:00Z');
+const NOW = WEEK_NOW;
 
 let dir: string;
 let invites: string;

@@ -7,28 +7,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Conversation } from '../../src/bot/conversation.ts';
 import { type RunningSlackApp, startSlackApp } from '../../src/bot/slack-app.ts';
 import { type OpenedService, openService } from '../../src/main.ts';
+import { WEEK_NOW, weekWorkspaceYaml } from '../app/week-workspace.ts';
 import { buttonBody, buttonsIn, signedPost, slashBody, WebApiStub } from './support.ts';
 
-// Invented demo people: two in Lisbon, one in Halifax; two rooms; two series.
-const YAML = `name: Saltline Survey Cooperative (week chat test)
-zone: Europe/Lisbon
-grid: 15
-workingHours: {mon: ["09:00-17:00"], tue: ["09:00-17:00"], wed: ["09:00-17:00"], thu: ["09:00-17:00"], fri: ["09:00-17:00"]}
-admins: [ines]
-people:
-  - {id: ines, name: Ines Carvalhal, email: ines@saltline.example, chat: U0DEMO006, zone: Europe/Lisbon}
-  - {id: rui, name: Rui Teixo, email: rui@saltline.example, chat: U0DEMO007, zone: Europe/Lisbon}
-  - {id: teo, name: Teo Brannigan, email: teo@saltline.example, chat: U0DEMO002, zone: America/Halifax}
-rooms:
-  - {id: tejo, name: Tejo, capacity: 10, features: [screen, phone], zone: Europe/Lisbon}
-  - {id: sounding, name: Sounding, capacity: 3, features: [whiteboard], zone: Europe/Lisbon}
-series:
-  - {id: survey-sync, name: Survey sync, attendees: [ines, rui, teo], minutes: 45, sessions: 2, minDays: 2, room: {features: [phone]}}
-  - {id: ines-rui, name: Ines and Rui one-to-one, attendees: [ines, rui], minutes: 30, room: {features: [whiteboard]}}
-weekPlan: {step: 30, post: "fri 14:00", channel: C0CHAN001, zone: Europe/Lisbon}
-`;
-// Tuesday 2026-12-01 18:00 UTC: next week is 2026-W50 (Monday 2026-12-07).
-const NOW = Date.parse('2026-12-01T18:00:00Z');
+const YAML = weekWorkspaceYaml(
+  'Saltline Survey Cooperative (week chat test)',
+  '{step: 30, post: "fri 14:00", channel: C0CHAN001, zone: Europe/Lisbon}',
+);
+const NOW = WEEK_NOW;
 const SECRET = 'test-signing-secret-0123456789';
 const FORM = 'application/x-www-form-urlencoded';
 const INES = 'U0DEMO006';
