@@ -1,33 +1,5 @@
-import { spawn } from 'node:child_process';
-import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { writeTestWorkspace } from './support.ts';
-
-const BIN = join(import.meta.dirname, '..', '..', 'bin', 'slotwright.mjs');
-
-/** Runs `slotwright console` with piped standard input, as a script would. */
-function runConsole(
-  args: readonly string[],
-  lines: readonly string[],
-): Promise<{ code: number; out: string; err: string }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [BIN, 'console', ...args], {
-      env: { ...process.env, SLOTWRIGHT_DATABASE_URL: ':memory:' },
-      stdio: ['pipe', 'pipe', 'pipe'],
-    });
-    let out = '';
-    let err = '';
-    child.stdout.on('data', (c: Buffer) => {
-      out += c.toString('utf8');
-    });
-    child.stderr.on('data', (c: Buffer) => {
-      err += c.toString('utf8');
-    });
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code: code ?? -1, out, err }));
-    child.stdin.end(`${lines.join('\n')}\n`);
-  });
-}
+import { runConsole, writeTestWorkspace } from './support.ts';
 
 describe('terminal console driven by piped input', () => {
   it('meets, books once, takes a rule that changes the options, and explains what blocks a request', async () => {

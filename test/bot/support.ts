@@ -1,5 +1,7 @@
 // Shared pieces of the bot tests: a small invented workspace on disk, a loopback stub of the chat
-// Web API and of response_url, and a client that signs requests as the platform does.
+// Web API and of response_url, a client that signs requests as the platform does, and the console
+// run with piped input.
+import { spawn } from 'node:child_process';
 import { mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { createServer, type IncomingMessage, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
@@ -286,4 +288,31 @@ export function buttonsIn(blocks: unknown): { action_id: string; value: string; 
 /** The instants of the `<!date^seconds^…>` tokens in a text, in order. */
 export function dateTokens(text: string): number[] {
   return [...text.matchAll(/<!date\^(\d+)\^/g)].map((m) => Number(m[1]) * 1000);
+}
+
+const BIN = join(import.meta.dirname, '..', '..', 'bin', 'slotwright.mjs');
+
+/** Runs `slotwright console` with piped standard input, as a script would, on an in-memory store. */
+export function runConsole(
+  args: readonly string[],
+  lines: readonly string[],
+  env: Record<string, string> = {},
+): Promise<{ code: number; out: string; err: string }> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, [BIN, 'console', ...args], {
+      env: { ...process.env, SLOTWRIGHT_DATABASE_URL: ':memory:', ...env },
+      stdio: ['pipe', 'pipe', 'pipe'],
+    });
+    let out = '';
+    let err = '';
+    child.stdout.on('data', (c: Buffer) => {
+      out += c.toString('utf8');
+    });
+    child.stderr.on('data', (c: Buffer) => {
+      err += c.toString('utf8');
+    });
+    child.on('error', reject);
+    child.on('close', (code) => resolve({ code: code ?? -1, out, err }));
+    child.stdin.end(`${lines.join('\n')}\n`);
+  });
 }

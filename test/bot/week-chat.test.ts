@@ -1,4 +1,3 @@
-import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -8,7 +7,7 @@ import { Conversation } from '../../src/bot/conversation.ts';
 import { type RunningSlackApp, startSlackApp } from '../../src/bot/slack-app.ts';
 import { type OpenedService, openService } from '../../src/main.ts';
 import { WEEK_NOW, weekWorkspaceYaml } from '../app/week-workspace.ts';
-import { buttonBody, buttonsIn, signedPost, slashBody, WebApiStub } from './support.ts';
+import { buttonBody, buttonsIn, runConsole, signedPost, slashBody, WebApiStub } from './support.ts';
 
 const YAML = weekWorkspaceYaml(
   'Saltline Survey Cooperative (week chat test)',
@@ -18,7 +17,6 @@ const NOW = WEEK_NOW;
 const SECRET = 'test-signing-secret-0123456789';
 const FORM = 'application/x-www-form-urlencoded';
 const INES = 'U0DEMO006';
-const BIN = join(import.meta.dirname, '..', '..', 'bin', 'slotwright.mjs');
 
 function writeWorkspace(): string {
   const dir = mkdtempSync(join(tmpdir(), 'slotwright-week-bot-'));
@@ -132,26 +130,6 @@ describe('/slot week in chat, end to end (signed requests, loopback Web API)', (
     }
   });
 });
-
-function runConsole(args: readonly string[], lines: readonly string[], env: Record<string, string>) {
-  return new Promise<{ code: number; out: string; err: string }>((resolve, reject) => {
-    const child = spawn(process.execPath, [BIN, 'console', ...args], {
-      env: { ...process.env, SLOTWRIGHT_DATABASE_URL: ':memory:', ...env },
-      stdio: ['pipe', 'pipe', 'pipe'],
-    });
-    let out = '';
-    let err = '';
-    child.stdout.on('data', (c: Buffer) => {
-      out += c.toString('utf8');
-    });
-    child.stderr.on('data', (c: Buffer) => {
-      err += c.toString('utf8');
-    });
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code: code ?? -1, out, err }));
-    child.stdin.end(`${lines.join('\n')}\n`);
-  });
-}
 
 describe('week plan in the console, driven by piped input', () => {
   it('plans the week, locks it with the numbered choice and lists the booked sessions', async () => {
