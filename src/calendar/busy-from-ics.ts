@@ -113,6 +113,28 @@ function copyTime(this: IcalTime): IcalTime {
   return copy;
 }
 
+// A daily or weekly rule with no COUNT repeats the same pattern every INTERVAL days or weeks,
+// counted from DTSTART; starting it a whole number of those periods later gives the same instances
+// from that later start on (RFC 5545 section 3.3.10: the BYxxx parts and WKST pick the same days
+// within each period, UNTIL is a fixed instant). So a series that began long before the window is
+// expanded by ical.js from less than one period before `lo` (the window start less slack) instead
+// of from its first instance; the start it is given is itself before `lo` and so dropped,
+// whether or not it matches the rule. Rules with COUNT, and monthly or yearly ones (whose periods
+// differ in length), start at DTSTART as written.
+function laterStart(recur: IcalRecur, start: IcalTime, lo: number): IcalTime {
+  const days = recur.freq === 'WEEKLY' ? 7 : recur.freq === 'DAILY' ? 1 : 0;
+  const interval = Number(recur.interval ?? 1);
+  if (days === 0 || (recur.count !== null && recur.count !== undefined)) return start;
+  if (!Number.isInteger(interval) || interval < 1) return start;
+  const period = days * interval;
+  // the most whole periods that still leave the new start before lo
+  const periods = Math.ceil((lo - pseudoUtc(localOf(start))) / (period * DAY_MS)) - 1;
+  if (periods < 1) return start;
+  const later = start.clone();
+  later.adjust(periods * period, 0, 0, 0);
+  return later;
+}
+
 // Local times differ from UTC by at most about 14 hours; two days of slack keeps every candidate.
 const SLACK_MS = 2 * DAY_MS;
 
@@ -497,7 +519,8 @@ class FeedReader {
       const rrules = comp.getAllProperties('rrule');
       let it: { next(): IcalTime | null | undefined };
       if (rrules.length === 1 && !comp.hasProperty('rdate')) {
-        const own = (rrules[0]!.getFirstValue() as IcalRecur).iterator(start);
+        const recur = rrules[0]!.getFirstValue() as IcalRecur;
+        const own = recur.iterator(laterStart(recur, start, lo));
         quickCopies((own as unknown as { last: IcalTime | null }).last);
         it = own;
       } else it = new ICAL.Event(comp).iterator();
@@ -723,14 +746,64 @@ function rootsOf(parsed: unknown): Jcal[] {
   return (typeof parsed[0] === 'string' ? [parsed] : parsed) as Jcal[];
 }
 
-// Parses the whole text with ical.js; when that fails, parses each top-level component on its own
-// so one broken event does not hide the rest, and reports each broken one by name and line. The
-// line scan runs only when needed (a failed parse or a warning), as it costs time on big feeds.
-function childrenOf(text: string, reader: { warnings: string[]; skipped: number }): Children {
+// The properties that bear on busy time: component bounds, the event's times and recurrence, its
+// status, the owner's ATTENDEE line (only when the owner is known), free/busy periods and what a
+// VTIMEZONE is made of. Every other content line (titles, descriptions, places, organizers, alarms'
+// texts, vendor X- properties) is cut from the text before ical.js parses it: such lines are never
+// read here (privacy), and not parsing them is most of what a big feed costs beyond its times. Only
+// whole unfolded content lines whose name is not on this list go, with their folded continuation
+// lines (RFC 5545 section 3.1); anything that is not a well-formed "NAME;...:" or "NAME:" start of
+// a line is left for ical.js to judge, so broken input is still reported as before.
+const BUSY_NAMES = [
+  'BEGIN',
+  'END',
+  'VERSION',
+  'UID',
+  'DTSTART',
+  'DTEND',
+  'DURATION',
+  'RRULE',
+  'RDATE',
+  'EXDATE',
+  'EXRULE',
+  'RECURRENCE-ID',
+  'STATUS',
+  'TRANSP',
+  'FREEBUSY',
+  'TZID',
+  'TZOFFSETFROM',
+  'TZOFFSETTO',
+  'TZNAME',
+];
+// STATUS:CONFIRMED and TRANSP:OPAQUE say what an event without them means (busy), so they go too.
+const lineCut = (keep: readonly string[]): RegExp =>
+  // The line break before a line goes with it, so a line is only ever cut after a real break.
+  new RegExp(
+    `\\r?\\n(?:(?!(?:${keep.join('|')})[;:])[A-Z0-9-]+[;:][^\\r\\n]*(?:\\r?\\n[ \\t][^\\r\\n]*)*|(?:STATUS:CONFIRMED|TRANSP:OPAQUE)(?=\\r?\\n(?![ \\t])))`,
+    'gi',
+  );
+const CUT_WITHOUT_OWNER = lineCut(BUSY_NAMES);
+const CUT_WITH_OWNER = lineCut([...BUSY_NAMES, 'ATTENDEE']);
+
+/** The text with every content line that cannot bear on busy time taken out (see BUSY_NAMES). */
+export function busyLinesOnly(text: string, withAttendees: boolean): string {
+  return text.replace(withAttendees ? CUT_WITH_OWNER : CUT_WITHOUT_OWNER, '');
+}
+
+// Parses the text (cut to the lines that bear on busy time) with ical.js; when that fails, parses
+// each top-level component of the original text on its own so one broken event does not hide the
+// rest, and reports each broken one by name and line. The line scan runs only when needed (a failed
+// parse or a warning), as it costs time on big feeds; it always reads the original text, so lines
+// are named as the user sees them.
+function childrenOf(
+  text: string,
+  withAttendees: boolean,
+  reader: { warnings: string[]; skipped: number },
+): Children {
   let roots: Jcal[] | undefined;
   let wholeError: unknown;
   try {
-    roots = rootsOf(ICAL.parse(text));
+    roots = rootsOf(ICAL.parse(busyLinesOnly(text, withAttendees)));
   } catch (error) {
     wholeError = error;
   }
@@ -796,7 +869,7 @@ function readFeed(icsText: string, options: BusyOptions, keep: unknown[] | undef
       `unknown time zone '${options.zone}'; use an IANA name such as Europe/Lisbon`,
     );
   const collector = { warnings: [] as string[], skipped: 0 };
-  let children: Children | undefined = childrenOf(icsText, collector);
+  let children: Children | undefined = childrenOf(icsText, options.ownerEmail !== undefined, collector);
   const vtimezones = new Map<string, Jcal>();
   // A VEVENT is either read straight from its jCal (simple) or wrapped in an ical.js Component.
   const events: Entry[] = [];

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { busyFromIcs } from '../../src/calendar/busy-from-ics.ts';
+import { busyFromIcs, busyLinesOnly } from '../../src/calendar/busy-from-ics.ts';
 import { SlotwrightError } from '../../src/errors.ts';
 
 const WEEK = { start: Date.UTC(2026, 11, 7), end: Date.UTC(2026, 11, 14) };
@@ -231,5 +231,116 @@ describe('busyFromIcs', () => {
 
   it('rejects text that is not iCalendar', () => {
     expect(() => busyFromIcs('<html>nope</html>', { window: WEEK, zone: 'UTC' })).toThrow(SlotwrightError);
+  });
+
+  it('hands ical.js only the lines that bear on busy time, folded continuations included', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:cut',
+      'SUMMARY:Tide gauge review',
+      'DESCRIPTION:Bring the survey',
+      '  notes from the north shore', // a folded continuation of DESCRIPTION (RFC 5545 section 3.1)
+      '\tand the south shore',
+      'LOCATION;LANGUAGE=en:Harbour room',
+      'X-SALTLINE-COLOUR:teal',
+      'DTSTART;TZID=Europe/Lisbon:20261208T100000',
+      'DURATION:PT1H',
+      'ATTENDEE;PARTSTAT=DECLINED;CN="Teo":mailto:teo@saltline.example',
+      'STATUS:TENTATIVE',
+      'TRANSP:OPAQUE', // the default (busy), so it goes as well
+      'BEGIN:VALARM',
+      'ACTION:DISPLAY',
+      'TRIGGER:-PT15M',
+      'END:VALARM',
+      'END:VEVENT',
+    );
+    const withOwner = busyLinesOnly(ics, true);
+    expect(withOwner.split('\r\n')).toEqual([
+      'BEGIN:VCALENDAR',
+      'VERSION:2.0',
+      'BEGIN:VEVENT',
+      'UID:cut',
+      'DTSTART;TZID=Europe/Lisbon:20261208T100000',
+      'DURATION:PT1H',
+      'ATTENDEE;PARTSTAT=DECLINED;CN="Teo":mailto:teo@saltline.example',
+      'STATUS:TENTATIVE',
+      'BEGIN:VALARM',
+      'END:VALARM',
+      'END:VEVENT',
+      'END:VCALENDAR',
+    ]);
+    expect(busyLinesOnly(ics, false)).not.toContain('ATTENDEE');
+    // the cut changes nothing in what is read, and the declined line still counts for its owner
+    expect(rows(busyFromIcs(ics, { window: WEEK, zone: 'UTC' }))).toEqual([
+      ['2026-12-08T10:00:00Z', '2026-12-08T11:00:00Z', 'tentative'],
+    ]);
+    // STATUS:CONFIRMED is the default too, and a folded line that only starts like it is kept whole
+    expect(
+      busyLinesOnly(cal('BEGIN:VEVENT', 'STATUS:CONFIRMED', 'STATUS:CONFIRMED', ' X', 'END:VEVENT'), false),
+    ).toBe(
+      cal('BEGIN:VEVENT', 'STATUS:CONFIRMED', ' X', 'END:VEVENT').replace(
+        'PRODID:-//slotwright//test//EN\r\n',
+        '',
+      ),
+    );
+    expect(rows(busyFromIcs(ics, { window: WEEK, zone: 'UTC', ownerEmail: 'teo@saltline.example' }))).toEqual(
+      [],
+    );
+  });
+
+  it('names lines of the original text when a feed with cut lines is damaged', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:ok',
+      'SUMMARY:Buoy check',
+      'DESCRIPTION:long',
+      ' folded text',
+      'DTSTART:20261208T100000Z',
+      'DTEND:20261208T110000Z',
+      'END:VEVENT',
+      'BEGIN:VEVENT',
+      'UID:broken',
+      'SUMMARY:Another',
+      'DTSTART:20261209T100000Z',
+      'this line has no colon',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'UTC' });
+    expect(rows(r)).toEqual([['2026-12-08T10:00:00Z', '2026-12-08T11:00:00Z', 'busy']]);
+    expect(r.warnings).toHaveLength(1);
+    expect(r.warnings[0]).toMatch(/^VEVENT at line 12 could not be read \(line 16\)/);
+  });
+
+  it('reads a broken line it would cut as no error: titles are never parsed', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:title-only-broken',
+      'SUMMARY;X-NOTE="unclosed:Tide',
+      'DTSTART:20261208T100000Z',
+      'DTEND:20261208T110000Z',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'UTC' });
+    expect(rows(r)).toEqual([['2026-12-08T10:00:00Z', '2026-12-08T11:00:00Z', 'busy']]);
+    expect(r.warnings).toEqual([]);
+  });
+
+  it('expands a weekly series begun years before the window from near the window', () => {
+    const ics = cal(
+      'BEGIN:VEVENT',
+      'UID:old-weekly',
+      'DTSTART;TZID=Pacific/Auckland:20190107T090000',
+      'DTEND;TZID=Pacific/Auckland:20190107T093000',
+      'RRULE:FREQ=WEEKLY;INTERVAL=2;BYDAY=MO,TH;WKST=SU',
+      'END:VEVENT',
+    );
+    const r = busyFromIcs(ics, { window: WEEK, zone: 'UTC', maxInstancesPerSeries: 40 });
+    // 2019-01-07 is a Monday; 2026-12-14 is the Monday 2,898 days = 207 fortnights on (counted with
+    // Python's datetime), so the week of Sunday 13 to Saturday 19 December is one of the series'
+    // weeks and the week before is not. Auckland is UTC+13 in December (IANA tzdata: NZDT), so
+    // Monday 14 December 09:00 local is 20:00 UTC on the 13th, inside the window; Thursday 17th is
+    // after it. Only instances near the window are expanded, so the cap of 40 is not reached.
+    expect(rows(r)).toEqual([['2026-12-13T20:00:00Z', '2026-12-13T20:30:00Z', 'busy']]);
+    expect(r.warnings).toEqual([]);
   });
 });

@@ -107,3 +107,121 @@ describe('random RRULEs: our pipeline agrees with the rrule package', () => {
     expect(instances).toBeGreaterThan(2000);
   });
 });
+
+// Daily and weekly rules without COUNT are expanded from one period before the window rather than
+// from DTSTART (see laterStart in busy-from-ics.ts). Windows that open long after DTSTART exercise
+// that path: against the rrule package in UTC, and, in a zone with daylight-saving changes, against
+// the same pipeline reading from DTSTART on and clipped to the late window.
+const lateArb = fc.record({
+  freq: fc.constantFrom('WEEKLY', 'DAILY'),
+  interval: fc.integer({ min: 1, max: 5 }),
+  byday: fc.option(fc.uniqueArray(fc.constantFrom(...DAYS), { minLength: 1, maxLength: 3 }), {
+    nil: undefined,
+  }),
+  bymonth: fc.option(fc.uniqueArray(fc.integer({ min: 1, max: 12 }), { minLength: 2, maxLength: 6 }), {
+    nil: undefined,
+    freq: 2,
+  }),
+  wkst: fc.option(fc.constantFrom('MO', 'SU', 'WE'), { nil: undefined }),
+  // UNTIL, when there is one, falls shortly before, inside or after the window
+  untilAfterLate: fc.option(fc.integer({ min: -20, max: 150 }), { nil: undefined }),
+  seedDay: fc.integer({ min: 0, max: 1500 }),
+  hour: fc.integer({ min: 0, max: 23 }),
+  lateDays: fc.integer({ min: 30, max: 3000 }),
+  spanDays: fc.integer({ min: 7, max: 150 }),
+});
+
+function lateRule(r: typeof lateArb extends fc.Arbitrary<infer T> ? T : never): string[] {
+  const parts = [`FREQ=${r.freq}`, `INTERVAL=${r.interval}`];
+  if (r.byday !== undefined) parts.push(`BYDAY=${r.byday.join(',')}`);
+  if (r.bymonth !== undefined) parts.push(`BYMONTH=${r.bymonth.join(',')}`);
+  if (r.wkst !== undefined) parts.push(`WKST=${r.wkst}`);
+  return parts;
+}
+
+describe('daily and weekly rules read in a window long after DTSTART', () => {
+  it('agree with the rrule package in UTC (300 rules)', () => {
+    let instances = 0;
+    fc.assert(
+      fc.property(lateArb, (r) => {
+        const parts = lateRule(r);
+        const seed = Date.UTC(2018, 0, 1, r.hour) + r.seedDay * 86_400_000;
+        const first = rrulestr(`DTSTART:${stamp(seed)}\nRRULE:${parts.join(';')}`).after(
+          new Date(seed),
+          true,
+        );
+        if (first === null) return;
+        const dtstart = first.getTime();
+        const rule =
+          r.untilAfterLate === undefined
+            ? parts.join(';')
+            : `${parts.join(';')};UNTIL=${stamp(dtstart + (r.lateDays + r.untilAfterLate) * 86_400_000)}`;
+        const start = dtstart + r.lateDays * 86_400_000;
+        const window = { start, end: start + r.spanDays * 86_400_000 };
+        const reference = rrulestr(`DTSTART:${stamp(dtstart)}\nRRULE:${rule}`)
+          .between(new Date(window.start - 60_000), new Date(window.end), true)
+          .map((d) => d.getTime())
+          // a one-minute instance overlaps the window when it starts in [start - 1 min, end)
+          .filter((t) => t + 60_000 > window.start && t < window.end)
+          .map((t) => Math.max(t, window.start));
+        const ics = [
+          'BEGIN:VCALENDAR',
+          'VERSION:2.0',
+          'PRODID:-//slotwright//differential//EN',
+          'BEGIN:VEVENT',
+          'UID:late',
+          `DTSTART:${stamp(dtstart)}`,
+          'DURATION:PT1M',
+          `RRULE:${rule}`,
+          'END:VEVENT',
+          'END:VCALENDAR',
+        ].join('\r\n');
+        const ours = busyFromIcs(ics, { window, zone: 'UTC' }).busy.map((b) => b.start);
+        expect({ rule, window, instants: ours }).toEqual({ rule, window, instants: reference });
+        instances += ours.length;
+      }),
+      { numRuns: 300, seed: 20261202 },
+    );
+    expect(instances).toBeGreaterThan(1000);
+  });
+
+  it('give in a zone with DST changes what reading from DTSTART on gives (300 rules)', () => {
+    let instances = 0;
+    fc.assert(
+      fc.property(lateArb, (r) => {
+        const parts = lateRule(r);
+        const local = new Date(Date.UTC(2018, 0, 1, r.hour) + r.seedDay * 86_400_000);
+        const dt = stamp(local.getTime()).replace('Z', '');
+        const rule =
+          r.untilAfterLate === undefined
+            ? parts.join(';')
+            : `${parts.join(';')};UNTIL=${stamp(local.getTime() + (r.lateDays + r.untilAfterLate) * 86_400_000)}`;
+        const ics = [
+          'BEGIN:VCALENDAR',
+          'VERSION:2.0',
+          'PRODID:-//slotwright//differential//EN',
+          'BEGIN:VEVENT',
+          'UID:late-zoned',
+          `DTSTART;TZID=Pacific/Auckland:${dt}`,
+          'DURATION:PT1H',
+          `RRULE:${rule}`,
+          'END:VEVENT',
+          'END:VCALENDAR',
+        ].join('\r\n');
+        const start = local.getTime() + r.lateDays * 86_400_000;
+        const window = { start, end: start + r.spanDays * 86_400_000 };
+        const late = busyFromIcs(ics, { window, zone: 'UTC' }).busy;
+        const whole = busyFromIcs(ics, {
+          window: { start: local.getTime() - 2 * 86_400_000, end: window.end },
+          zone: 'UTC',
+        })
+          .busy.filter((b) => b.end > window.start)
+          .map((b) => ({ ...b, start: Math.max(b.start, window.start) }));
+        expect({ rule, window, busy: late }).toEqual({ rule, window, busy: whole });
+        instances += late.length;
+      }),
+      { numRuns: 300, seed: 20261203 },
+    );
+    expect(instances).toBeGreaterThan(1000);
+  });
+});
