@@ -165,7 +165,7 @@ function measureInTurns(
 export async function run(args: readonly string[]): Promise<number> {
   const json = args.includes('--json');
   const runsArg = args.find((a) => a.startsWith('--runs='));
-  const runs = runsArg === undefined ? 7 : Math.max(1, Number(runsArg.slice(7)));
+  const runs = runsArg === undefined ? 21 : Math.max(1, Number(runsArg.slice(7)));
   const text = generateFeed();
   const gc = gcFunction();
   const pipeline = () =>

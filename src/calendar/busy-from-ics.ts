@@ -84,8 +84,9 @@ interface TimeFields {
 // ical.js 2.2.1's RecurIterator#next copies its cursor at every step (Time#clone, which sets each
 // field through the generic Time#fromData path); that copy was about a third of the time spent
 // expanding a weekly series. The cursor of an iterator made here gets a copy method that builds
-// the same Time directly: the same seven fields, the same zone, normalization left pending and no
-// cached instant, as Time#clone leaves them. DATE cursors keep ical.js's own copy. The copies are
+// the same Time directly: the same seven fields, the same zone and no cached instant, as Time#clone
+// leaves them; normalization is left pending only when the original's is (Time#clone always leaves
+// it pending, and normalizing normal fields is a no-op). DATE cursors keep ical.js's own copy. The copies are
 // still full ical.js Time objects, so whatever ical.js does with them is unchanged; nothing
 // outside this module's iterators is touched.
 function quickCopies(cursor: IcalTime | null): void {
@@ -108,7 +109,9 @@ function copyTime(this: IcalTime): IcalTime {
   to.isDate = false;
   if (this.zone) copy.zone = this.zone;
   const state = copy as unknown as { _pendingNormalization: boolean; _cachedUnixTime: number | null };
-  state._pendingNormalization = true;
+  // A copy of fields that are already normal needs no normalizing (it would change nothing); a copy
+  // of fields still waiting for it waits too, as Time#clone's copy does.
+  state._pendingNormalization = (this as unknown as { _pendingNormalization: boolean })._pendingNormalization;
   state._cachedUnixTime = null;
   return copy;
 }

@@ -53,8 +53,12 @@ function four(s: string, i: number): number {
   return hi < 0 || lo < 0 ? -1 : hi * 100 + lo;
 }
 
+const MONTH_DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+// Proleptic Gregorian calendar, as RFC 5545 dates are (section 3.3.4).
 function daysInMonth(year: number, month: number): number {
-  return new Date(Date.UTC(year, month, 0)).getUTCDate();
+  if (month !== 2) return MONTH_DAYS[month - 1]!;
+  return (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0 ? 29 : 28;
 }
 
 /**

@@ -4,6 +4,7 @@ import { Temporal } from 'temporal-polyfill';
 import { describe, expect, it } from 'vitest';
 import { generateFeed } from '../../bench/feeds.ts';
 import { busyFromIcs } from '../../src/calendar/busy-from-ics.ts';
+import { jcalTime } from '../../src/calendar/jcal-event.ts';
 import { normalizeBusy } from '../../src/time/busy-set.ts';
 import type { BusyInterval } from '../../src/time/interval.ts';
 
@@ -142,5 +143,19 @@ describe('simple events read from jCal', () => {
       ),
       { numRuns: 300, seed: 5545 },
     );
+  });
+});
+
+describe('jcalTime', () => {
+  it('takes 29 February only in leap years of the Gregorian calendar', () => {
+    // Gregorian leap years: divisible by 4, except centuries not divisible by 400 (common practice;
+    // RFC 5545 section 3.3.4 dates are Gregorian). Checked against JavaScript's own Date as well.
+    for (const year of [1900, 2000, 2024, 2026, 2100, 2400]) {
+      const leap = new Date(Date.UTC(year, 1, 29)).getUTCMonth() === 1;
+      const read = jcalTime(['dtstart', {}, 'date', `${year}-02-29`]);
+      expect({ year, read: read !== undefined }).toEqual({ year, read: leap });
+    }
+    expect(jcalTime(['dtstart', {}, 'date', '2026-04-31'])).toBeUndefined();
+    expect(jcalTime(['dtstart', {}, 'date-time', '2026-12-31T23:59:59Z'])?.utc).toBe(true);
   });
 });
