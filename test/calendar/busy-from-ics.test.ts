@@ -270,6 +270,8 @@ describe('busyFromIcs', () => {
       'END:VCALENDAR',
     ]);
     expect(busyLinesOnly(ics, false)).not.toContain('ATTENDEE');
+    // bare LF line breaks, which many producers write, are cut the same way
+    expect(busyLinesOnly(ics.replace(/\r\n/g, '\n'), true)).toBe(withOwner.replace(/\r\n/g, '\n'));
     // the cut changes nothing in what is read, and the declined line still counts for its owner
     expect(rows(busyFromIcs(ics, { window: WEEK, zone: 'UTC' }))).toEqual([
       ['2026-12-08T10:00:00Z', '2026-12-08T11:00:00Z', 'tentative'],
