@@ -30,6 +30,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #olds: number[] = [];
   readonly #news: number[] = [];
   readonly #ids: number[] = [];
+  readonly #days: number[] = [0, 0];
   #cost: number;
 
   /** `sessions` are the session indexes to move; the scorer must hold a plan without clashes. */
@@ -215,7 +216,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
         side.push(1 - side[k]!);
       }
     }
-    // feasibility first, with plain moves: every member out, then each into its new start
+    // the cost of what the exchange touches (its series, and its attendees on the two days) now
     const olds = this.#olds;
     const news = this.#news;
     const ids = this.#ids;
@@ -226,8 +227,15 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
       const session = this.#sessions[m]!;
       ids.push(session);
       olds.push(sc.valueOf(session));
-      sc.set(session, -1);
     }
+    const days = this.#days;
+    days[0] = req.cells[p1]!.day;
+    days[1] = req.cells[p2]!.day;
+    days.length = days[0] === days[1] ? 1 : 2;
+    const before = sc.touch(ids, ids.length, days);
+    // then the exchange itself, by plain moves: every member out, then each into its new start in a
+    // free room; it is undone when some member finds none or the walk declines its price
+    for (const session of ids) sc.set(session, -1);
     let placed = 0;
     for (; placed < members.length; placed++) {
       const session = ids[placed]!;
@@ -236,18 +244,16 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
       sc.set(session, w);
       news.push(w);
     }
-    for (let k = 0; k < placed; k++) sc.set(ids[k]!, -1);
-    for (let k = 0; k < members.length; k++) sc.set(ids[k]!, olds[k]!);
-    if (placed < members.length) return false;
-    // then the price of the whole exchange, each touched series and attendee-day counted once
-    const d = sc.moveAll(ids, news, ids.length);
-    if (accept(d)) {
-      this.#cost += d;
-      for (let k = 0; k < members.length; k++) this.#drop(members[k]!, olds[k]!);
-      for (let k = 0; k < members.length; k++) this.#take(members[k]!, news[k]!);
-      return true;
+    if (placed === members.length) {
+      const d = sc.touchedCost(ids, ids.length) - before;
+      if (accept(d)) {
+        this.#cost += d;
+        for (let k = 0; k < members.length; k++) this.#drop(members[k]!, olds[k]!);
+        for (let k = 0; k < members.length; k++) this.#take(members[k]!, news[k]!);
+        return true;
+      }
     }
-    sc.moveAll(ids, olds, ids.length);
+    for (let k = 0; k < members.length; k++) sc.set(ids[k]!, olds[k]!);
     return false;
   }
 

@@ -94,6 +94,7 @@ export class WeekScorer {
   readonly #touchedSeries: number[] = [];
   readonly #touchedAttendees: number[] = [];
   readonly #touchedDays: number[] = [];
+  readonly #days: number[] = [];
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -381,48 +382,63 @@ export class WeekScorer {
   moveAll(sessions: ArrayLike<number>, values: ArrayLike<number>, count: number): number {
     const sp = this.#space;
     const cells = sp.request.cells;
-    const stamp = ++this.#stamp;
-    const series = this.#touchedSeries;
-    const atts = this.#touchedAttendees;
-    const days = this.#touchedDays;
-    series.length = 0;
-    atts.length = 0;
+    const days = this.#days;
     days.length = 0;
-    let unary = 0;
     for (let k = 0; k < count; k++) {
-      const session = sessions[k]!;
-      const s = sp.sessionSeries[session]!;
-      const old = this.#value[session]!;
+      const old = this.#value[sessions[k]!]!;
       const value = values[k]!;
       if (old >= 0) {
-        unary -= this.#unaryOf(s, old);
         const d = cells[sp.cellOf(old)]!.day;
         if (!days.includes(d)) days.push(d);
       }
       if (value >= 0) {
-        unary += this.#unaryOf(s, value);
         const d = cells[sp.cellOf(value)]!.day;
         if (!days.includes(d)) days.push(d);
       }
-      if (this.#seriesMark[s] !== stamp) {
-        this.#seriesMark[s] = stamp;
-        series.push(s);
-        if (this.#isolatedWeight > 0)
-          for (const a of this.#compact[s]!) {
-            if (this.#attendeeMark[a] !== stamp) {
-              this.#attendeeMark[a] = stamp;
-              atts.push(a);
-            }
-          }
-      }
     }
-    const before = this.#touchedCost();
+    const before = this.touch(sessions, count, days);
     for (let k = 0; k < count; k++) this.set(sessions[k]!, values[k]!);
-    return this.#touchedCost() - before + unary;
+    return this.touchedCost(sessions, count) - before;
   }
 
-  /** Series and attendee-day costs of what `moveAll` touches. */
-  #touchedCost(): number {
+  /**
+   * Starts pricing a compound move: the series of `count` sessions, their attendees who opted in to
+   * compactness, and `days` (every day a session leaves or enters) become the touched parts, and
+   * their present cost is returned (see `touchedCost`). Move the sessions with `set`, then
+   * `touchedCost` minus this is the change of the preference cost.
+   */
+  touch(sessions: ArrayLike<number>, count: number, days: readonly number[]): number {
+    const sp = this.#space;
+    const stamp = ++this.#stamp;
+    const series = this.#touchedSeries;
+    const atts = this.#touchedAttendees;
+    series.length = 0;
+    atts.length = 0;
+    const touched = this.#touchedDays;
+    touched.length = 0;
+    for (const d of days) touched.push(d);
+    for (let k = 0; k < count; k++) {
+      const s = sp.sessionSeries[sessions[k]!]!;
+      if (this.#seriesMark[s] === stamp) continue;
+      this.#seriesMark[s] = stamp;
+      series.push(s);
+      if (this.#isolatedWeight > 0)
+        for (const a of this.#compact[s]!) {
+          if (this.#attendeeMark[a] !== stamp) {
+            this.#attendeeMark[a] = stamp;
+            atts.push(a);
+          }
+        }
+    }
+    return this.touchedCost(sessions, count);
+  }
+
+  /**
+   * Cost of the parts the last `touch` marked (series costs, isolated meetings of the touched
+   * attendees on the touched days) plus the `count` sessions' own costs at their present values.
+   */
+  touchedCost(sessions: ArrayLike<number>, count: number): number {
+    const sp = this.#space;
     let c = 0;
     const series = this.#touchedSeries;
     const atts = this.#touchedAttendees;
@@ -433,6 +449,11 @@ export class WeekScorer {
     }
     for (let i = 0; i < atts.length; i++)
       for (let j = 0; j < days.length; j++) c += this.#isolatedOn(atts[i]!, days[j]!);
+    for (let k = 0; k < count; k++) {
+      const session = sessions[k]!;
+      const v = this.#value[session]!;
+      if (v >= 0) c += this.#unaryOf(sp.sessionSeries[session]!, v);
+    }
     return c;
   }
 
