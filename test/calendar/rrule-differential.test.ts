@@ -62,6 +62,21 @@ const ruleArb = fc
 
 const stamp = (ms: number) => new Date(ms).toISOString().replace(/[-:]/g, '').replace('.000', '');
 
+/** A feed of one series: its DTSTART line, length and rule. */
+const seriesFeed = (uid: string, dtstart: string, duration: string, rule: string): string =>
+  [
+    'BEGIN:VCALENDAR',
+    'VERSION:2.0',
+    'PRODID:-//slotwright//differential//EN',
+    'BEGIN:VEVENT',
+    `UID:${uid}`,
+    dtstart,
+    `DURATION:${duration}`,
+    `RRULE:${rule}`,
+    'END:VEVENT',
+    'END:VCALENDAR',
+  ].join('\r\n');
+
 describe('random RRULEs: our pipeline agrees with the rrule package', () => {
   it('expands 500 rules to the same UTC instants', () => {
     let compared = 0;
@@ -83,18 +98,7 @@ describe('random RRULEs: our pipeline agrees with the rrule package', () => {
           .map((d) => d.getTime())
           // busy time is half-open: an instance starting exactly at the window end is outside it
           .filter((t) => t < window.end);
-        const ics = [
-          'BEGIN:VCALENDAR',
-          'VERSION:2.0',
-          'PRODID:-//slotwright//differential//EN',
-          'BEGIN:VEVENT',
-          'UID:diff',
-          `DTSTART:${stamp(dtstart)}`,
-          'DURATION:PT1M',
-          `RRULE:${rule}`,
-          'END:VEVENT',
-          'END:VCALENDAR',
-        ].join('\r\n');
+        const ics = seriesFeed('diff', `DTSTART:${stamp(dtstart)}`, 'PT1M', rule);
         const ours = busyFromIcs(ics, { window, zone: 'UTC' }).busy.map((b) => b.start);
         expect({ rule, instants: ours }).toEqual({ rule, instants: reference });
         compared++;
@@ -164,18 +168,7 @@ describe('daily and weekly rules read in a window long after DTSTART', () => {
           // a one-minute instance overlaps the window when it starts in [start - 1 min, end)
           .filter((t) => t + 60_000 > window.start && t < window.end)
           .map((t) => Math.max(t, window.start));
-        const ics = [
-          'BEGIN:VCALENDAR',
-          'VERSION:2.0',
-          'PRODID:-//slotwright//differential//EN',
-          'BEGIN:VEVENT',
-          'UID:late',
-          `DTSTART:${stamp(dtstart)}`,
-          'DURATION:PT1M',
-          `RRULE:${rule}`,
-          'END:VEVENT',
-          'END:VCALENDAR',
-        ].join('\r\n');
+        const ics = seriesFeed('late', `DTSTART:${stamp(dtstart)}`, 'PT1M', rule);
         const ours = busyFromIcs(ics, { window, zone: 'UTC' }).busy.map((b) => b.start);
         expect({ rule, window, instants: ours }).toEqual({ rule, window, instants: reference });
         instances += ours.length;
@@ -196,18 +189,7 @@ describe('daily and weekly rules read in a window long after DTSTART', () => {
           r.untilAfterLate === undefined
             ? parts.join(';')
             : `${parts.join(';')};UNTIL=${stamp(local.getTime() + (r.lateDays + r.untilAfterLate) * 86_400_000)}`;
-        const ics = [
-          'BEGIN:VCALENDAR',
-          'VERSION:2.0',
-          'PRODID:-//slotwright//differential//EN',
-          'BEGIN:VEVENT',
-          'UID:late-zoned',
-          `DTSTART;TZID=Pacific/Auckland:${dt}`,
-          'DURATION:PT1H',
-          `RRULE:${rule}`,
-          'END:VEVENT',
-          'END:VCALENDAR',
-        ].join('\r\n');
+        const ics = seriesFeed('late-zoned', `DTSTART;TZID=Pacific/Auckland:${dt}`, 'PT1H', rule);
         const start = local.getTime() + r.lateDays * 86_400_000;
         const window = { start, end: start + r.spanDays * 86_400_000 };
         const late = busyFromIcs(ics, { window, zone: 'UTC' }).busy;
