@@ -133,7 +133,7 @@ function laterStart(recur: IcalRecur, start: IcalTime, lo: number): IcalTime {
   // the most whole periods that still leave the new start before lo
   const periods = Math.ceil((lo - pseudoUtc(localOf(start))) / (period * DAY_MS)) - 1;
   if (periods < 1) return start;
-  const later = start.clone();
+  const later = start.isDate ? start.clone() : copyTime.call(start);
   later.adjust(periods * period, 0, 0, 0);
   return later;
 }
@@ -456,10 +456,11 @@ class FeedReader {
     where: Where,
     overridden: ReadonlySet<number> | undefined,
   ): void {
+    const rrules = comp.getAllProperties('rrule');
     // ical.js compares a UTC UNTIL with local instance times as if both were UTC; restating UNTIL
     // in the series' own zone keeps the last instances RFC 5545 asks for.
     if (!start.isDate && zone.kind !== 'utc') {
-      for (const p of comp.getAllProperties('rrule')) {
+      for (const p of rrules) {
         const recur = p.getFirstValue() as IcalRecur;
         const until = recur.until;
         if (
@@ -473,7 +474,7 @@ class FeedReader {
         }
       }
     }
-    for (const p of comp.getAllProperties('rrule')) {
+    for (const p of rrules) {
       const recur = p.getFirstValue() as IcalRecur;
       const parts = recur.parts as Record<string, unknown[] | undefined>;
       let ordinalDay = false;
@@ -519,7 +520,6 @@ class FeedReader {
       // One RRULE and no RDATE, the usual case, needs no merging of instance sources, so the rule's
       // own iterator is used (ical.js's RecurExpansion clones every instance; EXDATE is applied here
       // either way).
-      const rrules = comp.getAllProperties('rrule');
       let it: { next(): IcalTime | null | undefined };
       if (rrules.length === 1 && !comp.hasProperty('rdate')) {
         const recur = rrules[0]!.getFirstValue() as IcalRecur;
