@@ -25,12 +25,13 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   /** Chain scratch: the chain's stamp per variable, its members and their sides and old values. */
   readonly #mark: Int32Array;
   #stamp = 0;
-  readonly #members: number[] = [];
-  readonly #side: number[] = [];
-  readonly #olds: number[] = [];
-  readonly #news: number[] = [];
-  readonly #ids: number[] = [];
-  readonly #days: number[] = [0, 0];
+  // (typed arrays of the longest chain: emptying plain arrays by length is a slow builtin call)
+  readonly #members = new Int32Array(MAX_CHAIN);
+  readonly #side = new Int32Array(MAX_CHAIN);
+  readonly #olds = new Int32Array(MAX_CHAIN);
+  readonly #news = new Int32Array(MAX_CHAIN);
+  readonly #ids = new Int32Array(MAX_CHAIN);
+  readonly #days = new Int32Array(2);
   #cost: number;
 
   /** `sessions` are the session indexes to move; the scorer must hold a plan without clashes. */
@@ -181,14 +182,13 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const stamp = ++this.#stamp;
     const members = this.#members;
     const side = this.#side;
-    members.length = 0;
-    side.length = 0;
-    members.push(variable);
-    side.push(0);
+    members[0] = variable;
+    side[0] = 0;
+    let n = 1;
     this.#mark[variable] = stamp;
     const C = req.cells.length;
     const who = this.#who;
-    for (let k = 0; k < members.length; k++) {
+    for (let k = 0; k < n; k++) {
       const x = members[k]!;
       const sx = this.#sessions[x]!;
       const xs = req.series[sp.sessionSeries[sx]!]!;
@@ -210,50 +210,47 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
         if (y < 0 || this.#mark[y] === stamp) continue;
         const sy = this.#sessions[y]!;
         if (sp.cellOf(sc.valueOf(sy)) !== other) return false;
-        if (req.series[sp.sessionSeries[sy]!]!.length !== length || members.length >= 32) return false;
+        if (req.series[sp.sessionSeries[sy]!]!.length !== length || n >= MAX_CHAIN) return false;
         this.#mark[y] = stamp;
-        members.push(y);
-        side.push(1 - side[k]!);
+        members[n] = y;
+        side[n] = 1 - side[k]!;
+        n++;
       }
     }
     // the cost of what the exchange touches (its series, and its attendees on the two days) now
     const olds = this.#olds;
     const news = this.#news;
     const ids = this.#ids;
-    olds.length = 0;
-    news.length = 0;
-    ids.length = 0;
-    for (const m of members) {
-      const session = this.#sessions[m]!;
-      ids.push(session);
-      olds.push(sc.valueOf(session));
+    for (let k = 0; k < n; k++) {
+      const session = this.#sessions[members[k]!]!;
+      ids[k] = session;
+      olds[k] = sc.valueOf(session);
     }
     const days = this.#days;
     days[0] = req.cells[p1]!.day;
     days[1] = req.cells[p2]!.day;
-    days.length = days[0] === days[1] ? 1 : 2;
-    const before = sc.touch(ids, ids.length, days);
+    const before = sc.touch(ids, n, days, days[0] === days[1] ? 1 : 2);
     // then the exchange itself, by plain moves: every member out, then each into its new start in a
     // free room; it is undone when some member finds none or the walk declines its price
-    for (const session of ids) sc.set(session, -1);
+    for (let k = 0; k < n; k++) sc.set(ids[k]!, -1);
     let placed = 0;
-    for (; placed < members.length; placed++) {
+    for (; placed < n; placed++) {
       const session = ids[placed]!;
       const w = this.#roomAt(session, side[placed] === 0 ? p2 : p1, sp.roomOf(olds[placed]!));
       if (w < 0) break;
       sc.set(session, w);
-      news.push(w);
+      news[placed] = w;
     }
-    if (placed === members.length) {
-      const d = sc.touchedCost(ids, ids.length) - before;
+    if (placed === n) {
+      const d = sc.touchedCost(ids, n) - before;
       if (accept(d)) {
         this.#cost += d;
-        for (let k = 0; k < members.length; k++) this.#drop(members[k]!, olds[k]!);
-        for (let k = 0; k < members.length; k++) this.#take(members[k]!, news[k]!);
+        for (let k = 0; k < n; k++) this.#drop(members[k]!, olds[k]!);
+        for (let k = 0; k < n; k++) this.#take(members[k]!, news[k]!);
         return true;
       }
     }
-    for (let k = 0; k < members.length; k++) sc.set(ids[k]!, olds[k]!);
+    for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
     return false;
   }
 
@@ -281,6 +278,9 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#hold();
   }
 }
+
+/** Most sessions one chain move may take along. */
+const MAX_CHAIN = 32;
 
 /** Length in cells of a series' sessions. */
 function lengthOf(space: WeekSpace, series: number): number {

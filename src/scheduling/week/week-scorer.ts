@@ -91,9 +91,13 @@ export class WeekScorer {
   #stamp = 0;
   readonly #seriesMark: Int32Array;
   readonly #attendeeMark: Int32Array;
-  readonly #touchedSeries: number[] = [];
-  readonly #touchedAttendees: number[] = [];
-  readonly #touchedDays: number[] = [];
+  // (typed arrays with counts: emptying a plain array by its length is a slow builtin call)
+  readonly #touchedSeries: Int32Array;
+  #seriesCount = 0;
+  readonly #touchedAttendees: Int32Array;
+  #attendeeCount = 0;
+  readonly #touchedDays: Int32Array;
+  #dayCount = 0;
   readonly #days: number[] = [];
 
   constructor(space: WeekSpace) {
@@ -118,6 +122,9 @@ export class WeekScorer {
     this.#seriesDays = new Int32Array(S);
     this.#seriesRooms = new Int32Array(S);
     this.#attendeeMark = new Int32Array(A);
+    this.#touchedSeries = new Int32Array(S);
+    this.#touchedAttendees = new Int32Array(A);
+    this.#touchedDays = new Int32Array(req.days);
     this.#prefDays = new Float64Array(S * C);
     this.#prefHours = new Float64Array(S * C);
     this.#usual = new Float64Array(S * C);
@@ -403,33 +410,37 @@ export class WeekScorer {
 
   /**
    * Starts pricing a compound move: the series of `count` sessions, their attendees who opted in to
-   * compactness, and `days` (every day a session leaves or enters) become the touched parts, and
-   * their present cost is returned (see `touchedCost`). Move the sessions with `set`, then
-   * `touchedCost` minus this is the change of the preference cost.
+   * compactness, and the first `dayCount` of `days` (every day a session leaves or enters) become
+   * the touched parts, and their present cost is returned (see `touchedCost`). Move the sessions
+   * with `set`, then `touchedCost` minus this is the change of the preference cost.
    */
-  touch(sessions: ArrayLike<number>, count: number, days: readonly number[]): number {
+  touch(sessions: ArrayLike<number>, count: number, days: ArrayLike<number>, dayCount = days.length): number {
     const sp = this.#space;
     const stamp = ++this.#stamp;
     const series = this.#touchedSeries;
     const atts = this.#touchedAttendees;
-    series.length = 0;
-    atts.length = 0;
-    const touched = this.#touchedDays;
-    touched.length = 0;
-    for (const d of days) touched.push(d);
+    let ns = 0;
+    let na = 0;
+    for (let j = 0; j < dayCount; j++) this.#touchedDays[j] = days[j]!;
+    this.#dayCount = dayCount;
     for (let k = 0; k < count; k++) {
       const s = sp.sessionSeries[sessions[k]!]!;
       if (this.#seriesMark[s] === stamp) continue;
       this.#seriesMark[s] = stamp;
-      series.push(s);
-      if (this.#isolatedWeight > 0)
-        for (const a of this.#compact[s]!) {
+      series[ns++] = s;
+      if (this.#isolatedWeight > 0) {
+        const compact = this.#compact[s]!;
+        for (let i = 0; i < compact.length; i++) {
+          const a = compact[i]!;
           if (this.#attendeeMark[a] !== stamp) {
             this.#attendeeMark[a] = stamp;
-            atts.push(a);
+            atts[na++] = a;
           }
         }
+      }
     }
+    this.#seriesCount = ns;
+    this.#attendeeCount = na;
     return this.touchedCost(sessions, count);
   }
 
@@ -443,12 +454,13 @@ export class WeekScorer {
     const series = this.#touchedSeries;
     const atts = this.#touchedAttendees;
     const days = this.#touchedDays;
-    for (let i = 0; i < series.length; i++) {
+    const nd = this.#dayCount;
+    for (let i = 0; i < this.#seriesCount; i++) {
       const s = series[i]!;
       c += this.#spreadOf(s) + this.#roomStabilityOf(s) + this.#movesOf(s);
     }
-    for (let i = 0; i < atts.length; i++)
-      for (let j = 0; j < days.length; j++) c += this.#isolatedOn(atts[i]!, days[j]!);
+    for (let i = 0; i < this.#attendeeCount; i++)
+      for (let j = 0; j < nd; j++) c += this.#isolatedOn(atts[i]!, days[j]!);
     for (let k = 0; k < count; k++) {
       const session = sessions[k]!;
       const v = this.#value[session]!;
