@@ -86,9 +86,9 @@ interface TimeFields {
 // expanding a weekly series. The cursor of an iterator made here gets a copy method that builds
 // the same Time directly: the same seven fields, the same zone and no cached instant, as Time#clone
 // leaves them; normalization is left pending only when the original's is (Time#clone always leaves
-// it pending, and normalizing normal fields is a no-op). DATE cursors keep ical.js's own copy. The copies are
-// still full ical.js Time objects, so whatever ical.js does with them is unchanged; nothing
-// outside this module's iterators is touched.
+// it pending, and normalizing normal fields is a no-op). DATE cursors keep ical.js's own copy. The
+// copies are still full ical.js Time objects, so whatever ical.js does with them is unchanged;
+// nothing outside this module's iterators is touched.
 function quickCopies(cursor: IcalTime | null): void {
   const fields = (cursor as unknown as { _time?: TimeFields } | null)?._time;
   if (cursor === null || typeof fields !== 'object' || fields === null || fields.isDate !== false) return;
@@ -133,7 +133,7 @@ function laterStart(recur: IcalRecur, start: IcalTime, lo: number): IcalTime {
   // the most whole periods that still leave the new start before lo
   const periods = Math.ceil((lo - pseudoUtc(localOf(start))) / (period * DAY_MS)) - 1;
   if (periods < 1) return start;
-  const later = start.isDate ? start.clone() : copyTime.call(start);
+  const later = copyTime.call(start);
   later.adjust(periods * period, 0, 0, 0);
   return later;
 }

@@ -87,7 +87,7 @@ export class WeekScorer {
   readonly #roomOcc: Uint16Array;
   /** Room-cells with more than one session (each extra session counts once). */
   #roomClashes = 0;
-  /** Scratch of moveAll: marks per series and attendee, and the touched ones. */
+  /** Scratch of touch: marks per series and attendee, and the touched ones. */
   #stamp = 0;
   readonly #seriesMark: Int32Array;
   readonly #attendeeMark: Int32Array;
@@ -98,7 +98,6 @@ export class WeekScorer {
   #attendeeCount = 0;
   readonly #touchedDays: Int32Array;
   #dayCount = 0;
-  readonly #days: number[] = [];
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -379,33 +378,6 @@ export class WeekScorer {
     const before = this.#localOf(s, d0, d1) + (old >= 0 ? this.#unaryOf(s, old) : 0);
     this.set(session, value);
     return this.#localOf(s, d0, d1) + (value >= 0 ? this.#unaryOf(s, value) : 0) - before;
-  }
-
-  /**
-   * Moves `count` sessions at once (`sessions[k]` to `values[k]`, -1 = out) and returns the change of
-   * the preference cost, pricing each touched series and each touched attendee-day once; clashes are
-   * not priced. The moves are made in order.
-   */
-  moveAll(sessions: ArrayLike<number>, values: ArrayLike<number>, count: number): number {
-    const sp = this.#space;
-    const cells = sp.request.cells;
-    const days = this.#days;
-    days.length = 0;
-    for (let k = 0; k < count; k++) {
-      const old = this.#value[sessions[k]!]!;
-      const value = values[k]!;
-      if (old >= 0) {
-        const d = cells[sp.cellOf(old)]!.day;
-        if (!days.includes(d)) days.push(d);
-      }
-      if (value >= 0) {
-        const d = cells[sp.cellOf(value)]!.day;
-        if (!days.includes(d)) days.push(d);
-      }
-    }
-    const before = this.touch(sessions, count, days);
-    for (let k = 0; k < count; k++) this.set(sessions[k]!, values[k]!);
-    return this.touchedCost(sessions, count) - before;
   }
 
   /**

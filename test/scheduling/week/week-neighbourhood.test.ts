@@ -133,8 +133,8 @@ describe('WeekNeighbourhood chain moves', () => {
   });
 });
 
-describe('WeekScorer.moveAll', () => {
-  it('prices several sessions moved at once exactly as a fresh count of the plans before and after', () => {
+describe('WeekScorer.touch and touchedCost', () => {
+  it('price several sessions moved at once exactly as a fresh count of the plans before and after', () => {
     const req = syntheticWeek({ series: 50, people: 30, rooms: 5, seed: 12 });
     const start = planWeek(req, { moves: 0, seed: 12 });
     const space = new WeekSpace(req);
@@ -155,7 +155,15 @@ describe('WeekScorer.moveAll', () => {
       }
       fresh.load(Array.from({ length: space.sessionCount }, (_, i) => scorer.valueOf(i)));
       const before = fresh.total();
-      const d = scorer.moveAll(ids, values, ids.length);
+      // every day a session leaves or enters is touched
+      const days = new Set<number>();
+      ids.forEach((session, k) => {
+        for (const v of [scorer.valueOf(session), values[k]!])
+          if (v >= 0) days.add(req.cells[space.cellOf(v)]!.day);
+      });
+      const priced = scorer.touch(ids, ids.length, [...days]);
+      for (let k = 0; k < ids.length; k++) scorer.set(ids[k]!, values[k]!);
+      const d = scorer.touchedCost(ids, ids.length) - priced;
       fresh.load(Array.from({ length: space.sessionCount }, (_, i) => scorer.valueOf(i)));
       expect(d).toBeCloseTo(fresh.total() - before, 6);
     }
