@@ -15,7 +15,7 @@ import {
   ROOM_GROUP,
   type WeekModel,
 } from './week-model.ts';
-import { WeekNeighbourhood } from './week-neighbourhood.ts';
+import { WeekNeighbourhood, type WeekNeighbourhoodOptions } from './week-neighbourhood.ts';
 import type { PlacedSession, WeekRequest } from './week-request.ts';
 import { type ScoreParts, WeekScorer } from './week-scorer.ts';
 import { WeekSpace } from './week-space.ts';
@@ -65,6 +65,8 @@ export interface PlanWeekOptions {
     AnnealOptions,
     'startTemperature' | 'endShare' | 'growth' | 'swapShare' | 'chainShare'
   >;
+  /** Settings of the week's moves. @default the neighbourhood's */
+  readonly neighbourhood?: WeekNeighbourhoodOptions;
   /** With `timeMs`, how long placing (before any improvement) may take at most, in ms, even past `timeMs`. @default 10000 */
   readonly placeMs?: number;
   /** Node limit of each construction search. @default 200000 */
@@ -283,7 +285,7 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
   const r = remaining();
   const timed = r !== undefined && clock !== undefined;
   if (sessionsOf.length > 0 && o.moves > 0 && (r === undefined || r > 0)) {
-    const problem = new WeekNeighbourhood(space, scorer, sessionsOf);
+    const problem = new WeekNeighbourhood(space, scorer, sessionsOf, { seed: o.seed, ...o.neighbourhood });
     const res = anneal(problem, {
       budget: {
         ...(Number.isFinite(o.moves) ? { nodes: o.moves } : {}),

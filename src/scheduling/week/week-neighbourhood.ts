@@ -1,4 +1,4 @@
-import type { NeighbourhoodProblem } from '../../solver/index.ts';
+import { type NeighbourhoodProblem, Prng } from '../../solver/index.ts';
 import type { WeekScorer } from './week-scorer.ts';
 import type { WeekSpace } from './week-space.ts';
 
@@ -33,9 +33,22 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #ids = new Int32Array(MAX_CHAIN);
   readonly #days = new Int32Array(2);
   #cost: number;
+  readonly #keepRoom: number;
+  readonly #roomMove: number;
+  readonly #fallback: boolean;
+  readonly #rng: Prng;
 
   /** `sessions` are the session indexes to move; the scorer must hold a plan without clashes. */
-  constructor(space: WeekSpace, scorer: WeekScorer, sessions: Int32Array) {
+  constructor(
+    space: WeekSpace,
+    scorer: WeekScorer,
+    sessions: Int32Array,
+    options: WeekNeighbourhoodOptions = {},
+  ) {
+    this.#keepRoom = options.keepRoomShare ?? DEFAULT_KEEP_ROOM;
+    this.#roomMove = options.roomMoveShare ?? DEFAULT_ROOM_MOVE;
+    this.#fallback = options.otherRoom ?? true;
+    this.#rng = new Prng(options.seed ?? 0);
     this.#space = space;
     this.#scorer = scorer;
     this.#sessions = sessions;
@@ -98,11 +111,39 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
    * two exchange places instead (a plain move there could only clash).
    */
   tryChange(variable: number, value: number, accept: (delta: number) => boolean): boolean {
+    const sp = this.#space;
+    const current = this.#scorer.valueOf(this.#sessions[variable]!);
+    const room = sp.roomOf(current);
+    if (this.#roomMove > 0 && room !== this.#noRoom && this.#rng.next() < this.#roomMove) {
+      // a room change in place, towards the room its series uses most: room stability is otherwise
+      // mended only by the rare random proposal that names the same start and the right room
+      const main = this.#mainRoom(this.#sessions[variable]!);
+      if (main === room) return false;
+      value = sp.cellOf(current) * sp.roomSlots + main;
+      if (!sp.allows(sp.sessionSeries[this.#sessions[variable]!]!, value)) return false;
+    }
+    // a move to another start mostly keeps the session's room: a random room would nearly always
+    // cost room stability, and the walk would spend most of its proposals on moves it then declines
+    if (
+      this.#keepRoom > 0 &&
+      room !== this.#noRoom &&
+      sp.roomOf(value) !== room &&
+      sp.cellOf(value) !== sp.cellOf(current) &&
+      this.#rng.next() < this.#keepRoom
+    ) {
+      const kept = sp.cellOf(value) * sp.roomSlots + room;
+      if (sp.allows(sp.sessionSeries[this.#sessions[variable]!]!, kept)) value = kept;
+    }
     const holder = this.#holder[value]!;
-    if (holder >= 0 && holder !== variable) return this.trySwap(variable, holder, accept);
     const session = this.#sessions[variable]!;
     const sc = this.#scorer;
-    if (!sc.freeFor(session, value)) return false;
+    if (holder >= 0 && holder !== variable) {
+      if (this.#swapFits(variable, holder)) return this.#swap(variable, holder, accept);
+      if (!this.#fallback) return false;
+      // the room's holder cannot take this session's place: another free room at that start, if any
+      value = this.#bestRoomAt(session, sp.cellOf(value));
+      if (value < 0) return false;
+    } else if (!sc.freeFor(session, value)) return false;
     const old = sc.valueOf(session);
     const d = sc.applyDelta(session, value);
     if (accept(d)) {
@@ -116,6 +157,11 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   }
 
   trySwap(a: number, b: number, accept: (delta: number) => boolean): boolean {
+    return this.#swapFits(a, b) && this.#swap(a, b, accept);
+  }
+
+  /** True when the sessions of variables `a` and `b` may exchange their values without a clash. */
+  #swapFits(a: number, b: number): boolean {
     const sa = this.#sessions[a]!;
     const sb = this.#sessions[b]!;
     const sp = this.#space;
@@ -127,8 +173,8 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const vb = sc.valueOf(sb);
     if (va === vb) return false;
     if (!sp.allows(serA, vb) || !sp.allows(serB, va)) return false;
-    // feasibility first, without moving: each fits where the other was once the other is gone; when
-    // the two new places overlap in time, by plain moves (`a` out, `b` into its place, `a` where `b` was)
+    // each fits where the other was once the other is gone, tested without moving; when the two new
+    // places overlap in time, by plain moves (`a` out, `b` into its place, `a` where `b` was)
     const ca = sp.cellOf(va);
     const cb = sp.cellOf(vb);
     const la = lengthOf(sp, serA);
@@ -143,9 +189,18 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
       const fits = sc.freeFor(sa, vb);
       sc.set(sb, vb);
       sc.set(sa, va);
-      if (!fits) return false;
-    } else if (!sc.freeForExcept(sa, vb, sb) || !sc.freeForExcept(sb, va, sa)) return false;
-    // then the price, by the same three steps
+      return fits;
+    }
+    return sc.freeForExcept(sa, vb, sb) && sc.freeForExcept(sb, va, sa);
+  }
+
+  /** Prices the exchange `#swapFits` allowed and makes it when `accept` takes the price. */
+  #swap(a: number, b: number, accept: (delta: number) => boolean): boolean {
+    const sa = this.#sessions[a]!;
+    const sb = this.#sessions[b]!;
+    const sc = this.#scorer;
+    const va = sc.valueOf(sa);
+    const vb = sc.valueOf(sb);
     let d = sc.applyDelta(sa, -1);
     d += sc.applyDelta(sb, va);
     d += sc.applyDelta(sa, vb);
@@ -232,14 +287,26 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const before = sc.touch(ids, n, days, days[0] === days[1] ? 1 : 2);
     // then the exchange itself, by plain moves: every member out, then each into its new start in a
     // free room; it is undone when some member finds none or the walk declines its price
+    // (members that can keep their room go first, so none of them loses it to one that cannot)
     for (let k = 0; k < n; k++) sc.set(ids[k]!, -1);
     let placed = 0;
-    for (; placed < n; placed++) {
-      const session = ids[placed]!;
-      const w = this.#roomAt(session, side[placed] === 0 ? p2 : p1, sp.roomOf(olds[placed]!));
+    for (let k = 0; k < n; k++) {
+      const session = ids[k]!;
+      const own = (side[k] === 0 ? p2 : p1) * sp.roomSlots + sp.roomOf(olds[k]!);
+      news[k] = -1;
+      if (sp.allows(sp.sessionSeries[session]!, own) && sc.freeFor(session, own)) {
+        sc.set(session, own);
+        news[k] = own;
+        placed++;
+      }
+    }
+    for (let k = 0; k < n && placed < n; k++) {
+      if (news[k]! >= 0) continue;
+      const w = this.#bestRoomAt(ids[k]!, side[k] === 0 ? p2 : p1);
       if (w < 0) break;
-      sc.set(session, w);
-      news[placed] = w;
+      sc.set(ids[k]!, w);
+      news[k] = w;
+      placed++;
     }
     if (placed === n) {
       const d = sc.touchedCost(ids, n) - before;
@@ -254,20 +321,51 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     return false;
   }
 
-  /** A free value for `session` starting at `cell`: its room `room` if possible, else the first that fits; -1 when none. */
-  #roomAt(session: number, cell: number, room: number): number {
+  /**
+   * The free value for `session` starting at `cell` in the room that costs least (missing seats, and
+   * a room its series does not use yet); -1 when no fitting room is free.
+   */
+  #bestRoomAt(session: number, cell: number): number {
     const sp = this.#space;
     const sc = this.#scorer;
     const s = sp.sessionSeries[session]!;
     const RS = sp.roomSlots;
-    const own = cell * RS + room;
-    if (sp.allows(s, own) && sc.freeFor(session, own)) return own;
-    if (room === this.#noRoom) return -1;
+    if (sp.request.series[s]!.room === undefined) {
+      const w = cell * RS + this.#noRoom;
+      return sp.allows(s, w) && sc.freeFor(session, w) ? w : -1;
+    }
+    // the attendees once, then only the rooms
+    if (!sc.freeFor(session, cell * RS + this.#noRoom)) return -1;
+    const length = sp.request.series[s]!.length;
+    let best = -1;
+    let bestCost = Number.POSITIVE_INFINITY;
     for (const r of this.#roomsOf[s]!) {
       const w = cell * RS + r;
-      if (r !== room && sp.allows(s, w) && sc.freeFor(session, w)) return w;
+      if (!sp.allows(s, w) || !sc.roomFreeFor(session, r, cell, length)) continue;
+      const cost = sc.unaryCost(session, w) + (sc.seriesInRoom(s, r) > 0 ? 0 : sc.roomStabilityWeight(s));
+      if (cost < bestCost) {
+        bestCost = cost;
+        best = w;
+      }
     }
-    return -1;
+    return best;
+  }
+
+  /** The room slot that most sessions of the session's series take (its present one on a tie). */
+  #mainRoom(session: number): number {
+    const sp = this.#space;
+    const sc = this.#scorer;
+    const s = sp.sessionSeries[session]!;
+    let best = sp.roomOf(sc.valueOf(session));
+    let most = sc.seriesInRoom(s, best);
+    for (const r of this.#roomsOf[s]!) {
+      const k = sc.seriesInRoom(s, r);
+      if (k > most) {
+        most = k;
+        best = r;
+      }
+    }
+    return best;
   }
 
   assign(values: ArrayLike<number>): void {
@@ -278,6 +376,21 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#hold();
   }
 }
+
+/** Options of a `WeekNeighbourhood`. */
+export interface WeekNeighbourhoodOptions {
+  /** Share of moves to another start that keep the session's room (where its series may take it). @default 0.8 */
+  readonly keepRoomShare?: number;
+  /** Share of changes turned into a move to the room the series uses most, at the same start. @default 0.1 */
+  readonly roomMoveShare?: number;
+  /** When a start's room is held by a session that cannot exchange places, try the cheapest free room there. @default true */
+  readonly otherRoom?: boolean;
+  /** Seed of the neighbourhood's own choices. @default 0 */
+  readonly seed?: number;
+}
+
+const DEFAULT_KEEP_ROOM = 0.8;
+const DEFAULT_ROOM_MOVE = 0.1;
 
 /** Most sessions one chain move may take along. */
 const MAX_CHAIN = 32;

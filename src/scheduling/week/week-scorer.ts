@@ -336,6 +336,16 @@ export class WeekScorer {
     return cost;
   }
 
+  /** Placed sessions of `series` in room slot `room`. */
+  seriesInRoom(series: number, room: number): number {
+    return this.#seriesRoom[series * this.#RS + room]!;
+  }
+
+  /** The room-stability weight of a series (0 when it takes no room). */
+  roomStabilityWeight(series: number): number {
+    return this.#space.request.series[series]!.room === undefined ? 0 : this.#w(series, 'roomStability');
+  }
+
   /** Overlapping sessions of one attendee, counted per attendee-cell and extra session. */
   clashes(): number {
     return this.#clashes;
@@ -455,6 +465,24 @@ export class WeekScorer {
    */
   freeFor(session: number, value: number): boolean {
     return this.#fits(session, value, -1);
+  }
+
+  /**
+   * True when room slot `room` holds no session over `length` cells from `cell`, apart from
+   * `session` itself: the room half of `freeFor`, for trying several rooms at one start.
+   */
+  roomFreeFor(session: number, room: number, cell: number, length: number): boolean {
+    if (room === this.#RS - 1) return true;
+    const sp = this.#space;
+    const old = this.#value[session]!;
+    const mine = old >= 0 && sp.roomOf(old) === room ? sp.cellOf(old) : -1;
+    const base = room * this.#C;
+    for (let k = 0; k < length; k++) {
+      const c = cell + k;
+      const own = mine >= 0 && c >= mine && c < mine + length ? 1 : 0;
+      if (this.#roomOcc[base + c]! - own > 0) return false;
+    }
+    return true;
   }
 
   /** The check of `freeFor`, with `other` (when >= 0) also left out of the count. */

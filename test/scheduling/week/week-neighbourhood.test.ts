@@ -169,3 +169,112 @@ describe('WeekScorer.touch and touchedCost', () => {
     }
   });
 });
+
+describe('WeekNeighbourhood room choices', () => {
+  // invented: one day of four one-hour cells, three rooms (two large, one small), two people
+  const HOUR = 3_600_000;
+  const base = {
+    cells: [0, 1, 2, 3].map((c) => ({ start: c * HOUR, end: (c + 1) * HOUR, day: 0 })),
+    days: 1,
+    rooms: [
+      { id: 'big', seats: 10, features: [] },
+      { id: 'small', seats: 2, features: [] },
+      { id: 'large', seats: 10, features: [] },
+    ],
+    attendees: [{ id: 'p' }, { id: 'q' }],
+    weights: { ...ZERO_WEIGHTS, roomStability: 1, seats: 1 },
+    seatsHard: false,
+  };
+  const need = { seats: 8, features: [] };
+  const RS = 4; // three rooms and the "no room" slot
+  const at = (cell: number, room: number) => cell * RS + room;
+  const BIG = 0;
+  const SMALL = 1;
+  const LARGE = 2;
+
+  it('a move to another start keeps the room when asked to, whatever room the proposal named', () => {
+    const req: WeekRequest = {
+      ...base,
+      series: [{ id: 'a', attendees: [0], sessions: 2, minDays: 1, length: 1, room: need }],
+    };
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    scorer.load([at(0, BIG), at(1, BIG)]);
+    const keep = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]), {
+      keepRoomShare: 1,
+      roomMoveShare: 0,
+    });
+    // proposed: cell 2 in small; made: cell 2 in big, so room stability stays whole
+    expect(keep.tryChange(1, at(2, SMALL), () => true)).toBe(true);
+    expect(keep.value(1)).toBe(at(2, BIG));
+    expect(scorer.parts()).toMatchObject({ roomStability: 0, seats: 0 });
+    // without keeping, the named room is taken
+    const named = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]), {
+      keepRoomShare: 0,
+      roomMoveShare: 0,
+    });
+    expect(named.tryChange(1, at(3, SMALL), () => true)).toBe(true);
+    expect(named.value(1)).toBe(at(3, SMALL));
+    expect(scorer.parts()).toMatchObject({ roomStability: 1, seats: 6 });
+  });
+
+  it('a room move takes the room its series uses most, at the same start', () => {
+    const req: WeekRequest = {
+      ...base,
+      series: [{ id: 'a', attendees: [0], sessions: 3, minDays: 1, length: 1, room: need }],
+    };
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    // two sessions in big, one in small
+    scorer.load([at(0, BIG), at(1, SMALL), at(2, BIG)]);
+    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), { roomMoveShare: 1 });
+    let seen = Number.NaN;
+    expect(
+      p.tryChange(1, at(3, LARGE), (d) => {
+        seen = d;
+        return true;
+      }),
+    ).toBe(true);
+    // still at cell 1, now in big: one room less and six missing seats less
+    expect(p.value(1)).toBe(at(1, BIG));
+    expect(seen).toBe(-7);
+    // every session is in the series' main room now: a room move has nothing to do
+    expect(p.tryChange(0, at(2, SMALL), () => true)).toBe(false);
+    expect([p.value(0), p.value(1), p.value(2)]).toEqual([at(0, BIG), at(1, BIG), at(2, BIG)]);
+  });
+
+  it("takes the cheapest free room when the kept room's holder cannot exchange places", () => {
+    const req: WeekRequest = {
+      ...base,
+      series: [
+        { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need },
+        { id: 'b', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
+        { id: 'd', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
+      ],
+    };
+    const space = new WeekSpace(req);
+    // a at 0 in big, b at 1 in big, d at 0 in small: b cannot take a's place (q meets d there)
+    const values = [at(0, BIG), at(1, BIG), at(0, SMALL)];
+    const scorer = new WeekScorer(space);
+    scorer.load(values);
+    const refuse = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), {
+      keepRoomShare: 1,
+      roomMoveShare: 0,
+      otherRoom: false,
+    });
+    expect(refuse.tryChange(0, at(1, SMALL), () => true)).toBe(false);
+    expect(refuse.value(0)).toBe(at(0, BIG));
+    const fallBack = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), {
+      keepRoomShare: 1,
+      roomMoveShare: 0,
+    });
+    // small would miss six seats, large none: large
+    expect(fallBack.tryChange(0, at(1, SMALL), () => true)).toBe(true);
+    expect([fallBack.value(0), fallBack.value(1), fallBack.value(2)]).toEqual([
+      at(1, LARGE),
+      at(1, BIG),
+      at(0, SMALL),
+    ]);
+    expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
+  });
+});
