@@ -98,6 +98,17 @@ export class WeekScorer {
   #attendeeCount = 0;
   readonly #touchedDays: Int32Array;
   #dayCount = 0;
+  // Flat copies of what the hot paths read per move (typed arrays instead of request objects).
+  /** Plan day of each cell. */
+  readonly #cellDay: Int32Array;
+  /** Per series: length in cells, min days, spread and room-stability weights (0 without a room). */
+  readonly #len: Int32Array;
+  readonly #minDays: Int32Array;
+  readonly #spreadW: Float64Array;
+  readonly #stabW: Float64Array;
+  /** Attendees of series s: #attList[#attFirst[s] .. #attFirst[s + 1]). */
+  readonly #attFirst: Int32Array;
+  readonly #attList: Int32Array;
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -129,6 +140,16 @@ export class WeekScorer {
     this.#usual = new Float64Array(S * C);
     this.#rules = new Float64Array(S * C);
     this.#seats = new Float64Array(S * RS);
+    this.#cellDay = Int32Array.from(req.cells, (c) => c.day);
+    this.#len = new Int32Array(S);
+    this.#minDays = new Int32Array(S);
+    this.#spreadW = new Float64Array(S);
+    this.#stabW = new Float64Array(S);
+    this.#attFirst = new Int32Array(S + 1);
+    req.series.forEach((ser, si) => {
+      this.#attFirst[si + 1] = this.#attFirst[si]! + ser.attendees.length;
+    });
+    this.#attList = Int32Array.from(req.series.flatMap((ser) => ser.attendees));
     const names = SERIES_WEIGHTS;
     this.#weights = new Float64Array(S * names.length);
     this.#isolatedWeight = req.weights.isolated;
@@ -176,6 +197,10 @@ export class WeekScorer {
         this.#usual[si * C + c] = usual * wUsual;
         this.#rules[si * C + c] = rules * req.weights.rules;
       }
+      this.#len[si] = s.length;
+      this.#minDays[si] = s.minDays;
+      this.#spreadW[si] = this.#w(si, 'spread');
+      this.#stabW[si] = s.room === undefined ? 0 : this.#w(si, 'roomStability');
       if (s.room !== undefined && !req.seatsHard)
         req.rooms.forEach((r, ri) => {
           this.#seats[si * RS + ri] = Math.max(0, s.room!.seats - r.seats) * req.weights.seats;
@@ -218,41 +243,47 @@ export class WeekScorer {
   }
 
   #add(i: number, v: number): void {
-    const sp = this.#space;
-    const s = sp.sessionSeries[i]!;
-    const ser = sp.request.series[s]!;
-    const c = sp.cellOf(v);
+    const s = this.#space.sessionSeries[i]!;
+    const RS = this.#RS;
+    const c = Math.floor(v / RS);
+    const r = v - c * RS;
     const C = this.#C;
-    for (const a of ser.attendees) {
-      this.#starts[a * C + c]!++;
-      for (let k = 0; k < ser.length; k++) if (this.#occ[a * C + c + k]!++ > 0) this.#clashes++;
+    const L = this.#len[s]!;
+    const occ = this.#occ;
+    const list = this.#attList;
+    for (let j = this.#attFirst[s]!, end = this.#attFirst[s + 1]!; j < end; j++) {
+      const at = list[j]! * C + c;
+      this.#starts[at]!++;
+      for (let k = 0; k < L; k++) if (occ[at + k]!++ > 0) this.#clashes++;
     }
-    if (this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]!++ === 0) this.#seriesDays[s]!++;
-    const r = sp.roomOf(v);
-    if (this.#seriesRoom[s * this.#RS + r]!++ === 0) this.#seriesRooms[s]!++;
+    if (this.#seriesDay[s * this.#D + this.#cellDay[c]!]!++ === 0) this.#seriesDays[s]!++;
+    if (this.#seriesRoom[s * RS + r]!++ === 0) this.#seriesRooms[s]!++;
     this.#seriesPlaced[s]!++;
-    if (r !== this.#RS - 1)
-      for (let k = 0; k < ser.length; k++) if (this.#roomOcc[r * C + c + k]!++ > 0) this.#roomClashes++;
+    if (r !== RS - 1)
+      for (let k = 0; k < L; k++) if (this.#roomOcc[r * C + c + k]!++ > 0) this.#roomClashes++;
     this.#value[i] = v;
   }
 
   #remove(i: number): void {
-    const sp = this.#space;
     const v = this.#value[i]!;
-    const s = sp.sessionSeries[i]!;
-    const ser = sp.request.series[s]!;
-    const c = sp.cellOf(v);
+    const s = this.#space.sessionSeries[i]!;
+    const RS = this.#RS;
+    const c = Math.floor(v / RS);
+    const r = v - c * RS;
     const C = this.#C;
-    for (const a of ser.attendees) {
-      this.#starts[a * C + c]!--;
-      for (let k = 0; k < ser.length; k++) if (--this.#occ[a * C + c + k]! > 0) this.#clashes--;
+    const L = this.#len[s]!;
+    const occ = this.#occ;
+    const list = this.#attList;
+    for (let j = this.#attFirst[s]!, end = this.#attFirst[s + 1]!; j < end; j++) {
+      const at = list[j]! * C + c;
+      this.#starts[at]!--;
+      for (let k = 0; k < L; k++) if (--occ[at + k]! > 0) this.#clashes--;
     }
-    if (--this.#seriesDay[s * this.#D + sp.request.cells[c]!.day]! === 0) this.#seriesDays[s]!--;
-    const r = sp.roomOf(v);
-    if (--this.#seriesRoom[s * this.#RS + r]! === 0) this.#seriesRooms[s]!--;
+    if (--this.#seriesDay[s * this.#D + this.#cellDay[c]!]! === 0) this.#seriesDays[s]!--;
+    if (--this.#seriesRoom[s * RS + r]! === 0) this.#seriesRooms[s]!--;
     this.#seriesPlaced[s]!--;
-    if (r !== this.#RS - 1)
-      for (let k = 0; k < ser.length; k++) if (--this.#roomOcc[r * C + c + k]! > 0) this.#roomClashes--;
+    if (r !== RS - 1)
+      for (let k = 0; k < L; k++) if (--this.#roomOcc[r * C + c + k]! > 0) this.#roomClashes--;
     this.#value[i] = -1;
   }
 
@@ -280,12 +311,11 @@ export class WeekScorer {
 
   #spreadOf(s: number): number {
     if (this.#seriesPlaced[s] === 0) return 0;
-    return Math.max(0, this.#space.request.series[s]!.minDays - this.#seriesDays[s]!) * this.#w(s, 'spread');
+    return Math.max(0, this.#minDays[s]! - this.#seriesDays[s]!) * this.#spreadW[s]!;
   }
 
   #roomStabilityOf(s: number): number {
-    if (this.#space.request.series[s]!.room === undefined) return 0;
-    return Math.max(0, this.#seriesRooms[s]! - 1) * this.#w(s, 'roomStability');
+    return Math.max(0, this.#seriesRooms[s]! - 1) * this.#stabW[s]!;
   }
 
   #movesOf(s: number): number {
@@ -343,7 +373,7 @@ export class WeekScorer {
 
   /** The room-stability weight of a series (0 when it takes no room). */
   roomStabilityWeight(series: number): number {
-    return this.#space.request.series[series]!.room === undefined ? 0 : this.#w(series, 'roomStability');
+    return this.#stabW[series]!;
   }
 
   /** Overlapping sessions of one attendee, counted per attendee-cell and extra session. */
@@ -382,9 +412,8 @@ export class WeekScorer {
     if (old === value) return 0;
     const sp = this.#space;
     const s = sp.sessionSeries[session]!;
-    const cells = sp.request.cells;
-    const d0 = old >= 0 ? cells[sp.cellOf(old)]!.day : -1;
-    const d1 = value >= 0 ? cells[sp.cellOf(value)]!.day : -1;
+    const d0 = old >= 0 ? this.#cellDay[sp.cellOf(old)]! : -1;
+    const d1 = value >= 0 ? this.#cellDay[sp.cellOf(value)]! : -1;
     const before = this.#localOf(s, d0, d1) + (old >= 0 ? this.#unaryOf(s, old) : 0);
     this.set(session, value);
     return this.#localOf(s, d0, d1) + (value >= 0 ? this.#unaryOf(s, value) : 0) - before;
