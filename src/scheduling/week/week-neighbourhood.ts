@@ -36,6 +36,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #keepRoom: number;
   readonly #roomMove: number;
   readonly #fallback: boolean;
+  readonly #roomPulls: number;
   readonly #rng: Prng;
 
   /** `sessions` are the session indexes to move; the scorer must hold a plan without clashes. */
@@ -48,6 +49,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#keepRoom = options.keepRoomShare ?? DEFAULT_KEEP_ROOM;
     this.#roomMove = options.roomMoveShare ?? DEFAULT_ROOM_MOVE;
     this.#fallback = options.otherRoom ?? true;
+    this.#roomPulls = options.roomPulls ?? DEFAULT_ROOM_PULLS;
     this.#rng = new Prng(options.seed ?? 0);
     this.#space = space;
     this.#scorer = scorer;
@@ -243,82 +245,102 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#mark[variable] = stamp;
     const C = req.cells.length;
     const who = this.#who;
-    for (let k = 0; k < n; k++) {
-      const x = members[k]!;
-      const sx = this.#sessions[x]!;
-      const xs = req.series[sp.sessionSeries[sx]!]!;
-      const other = side[k] === 0 ? p2 : p1;
-      // whoever holds one of x's attendees at the other start (a plan without clashes has at most one
-      // session per attendee and cell); a series without attendees only meets its own sessions
-      const atts = xs.attendees;
-      const sibling = atts.length === 0 ? sp.seriesFirst[sp.sessionSeries[sx]!]! : 0;
-      const count = atts.length === 0 ? xs.sessions : atts.length;
-      for (let i = 0; i < count; i++) {
-        let y: number;
-        if (atts.length > 0) {
-          y = -1;
-          for (let c = 0; c < length && y < 0; c++) y = who[atts[i]! * C + other + c]!;
-        } else {
-          y = this.#variableOf.get(sibling + i) ?? -1;
-          if (y >= 0 && sp.cellOf(sc.valueOf(sibling + i)) !== other) y = -1;
-        }
-        if (y < 0 || this.#mark[y] === stamp) continue;
-        const sy = this.#sessions[y]!;
-        if (sp.cellOf(sc.valueOf(sy)) !== other) return false;
-        if (req.series[sp.sessionSeries[sy]!]!.length !== length || n >= MAX_CHAIN) return false;
-        this.#mark[y] = stamp;
-        members[n] = y;
-        side[n] = 1 - side[k]!;
-        n++;
-      }
-    }
-    // the cost of what the exchange touches (its series, and its attendees on the two days) now
     const olds = this.#olds;
     const news = this.#news;
     const ids = this.#ids;
-    for (let k = 0; k < n; k++) {
-      const session = this.#sessions[members[k]!]!;
-      ids[k] = session;
-      olds[k] = sc.valueOf(session);
-    }
     const days = this.#days;
     days[0] = req.cells[p1]!.day;
     days[1] = req.cells[p2]!.day;
-    const before = sc.touch(ids, n, days, days[0] === days[1] ? 1 : 2);
-    // then the exchange itself, by plain moves: every member out, then each into its new start in a
-    // free room; it is undone when some member finds none or the walk declines its price
-    // (members that can keep their room go first, so none of them loses it to one that cannot)
-    for (let k = 0; k < n; k++) sc.set(ids[k]!, -1);
-    let placed = 0;
-    for (let k = 0; k < n; k++) {
-      const session = ids[k]!;
-      const own = (side[k] === 0 ? p2 : p1) * sp.roomSlots + sp.roomOf(olds[k]!);
-      news[k] = -1;
-      if (sp.allows(sp.sessionSeries[session]!, own) && sc.freeFor(session, own)) {
-        sc.set(session, own);
-        news[k] = own;
+    const RS = sp.roomSlots;
+    let followed = 0;
+    for (let pulls = 0; ; pulls++) {
+      for (; followed < n; followed++) {
+        const x = members[followed]!;
+        const sx = this.#sessions[x]!;
+        const xs = req.series[sp.sessionSeries[sx]!]!;
+        const other = side[followed] === 0 ? p2 : p1;
+        // whoever holds one of x's attendees at the other start (a plan without clashes has at most
+        // one session per attendee and cell); a series without attendees only meets its own sessions
+        const atts = xs.attendees;
+        const sibling = atts.length === 0 ? sp.seriesFirst[sp.sessionSeries[sx]!]! : 0;
+        const count = atts.length === 0 ? xs.sessions : atts.length;
+        for (let i = 0; i < count; i++) {
+          let y: number;
+          if (atts.length > 0) {
+            y = -1;
+            for (let c = 0; c < length && y < 0; c++) y = who[atts[i]! * C + other + c]!;
+          } else {
+            y = this.#variableOf.get(sibling + i) ?? -1;
+            if (y >= 0 && sp.cellOf(sc.valueOf(sibling + i)) !== other) y = -1;
+          }
+          if (y < 0 || this.#mark[y] === stamp) continue;
+          const sy = this.#sessions[y]!;
+          if (sp.cellOf(sc.valueOf(sy)) !== other) return false;
+          if (req.series[sp.sessionSeries[sy]!]!.length !== length || n >= MAX_CHAIN) return false;
+          this.#mark[y] = stamp;
+          members[n] = y;
+          side[n] = 1 - side[followed]!;
+          n++;
+        }
+      }
+      // the cost of what the exchange touches (its series, and its attendees on the two days) now
+      for (let k = 0; k < n; k++) {
+        const session = this.#sessions[members[k]!]!;
+        ids[k] = session;
+        olds[k] = sc.valueOf(session);
+      }
+      const before = sc.touch(ids, n, days, days[0] === days[1] ? 1 : 2);
+      // then the exchange itself, by plain moves: every member out, then each into its new start in
+      // a free room (members that can keep their room go first, so none of them loses it to one that
+      // cannot); it is undone when some member finds no room or the walk declines its price
+      for (let k = 0; k < n; k++) sc.set(ids[k]!, -1);
+      let placed = 0;
+      for (let k = 0; k < n; k++) {
+        const session = ids[k]!;
+        const own = (side[k] === 0 ? p2 : p1) * RS + sp.roomOf(olds[k]!);
+        news[k] = -1;
+        if (sp.allows(sp.sessionSeries[session]!, own) && sc.freeFor(session, own)) {
+          sc.set(session, own);
+          news[k] = own;
+          placed++;
+        }
+      }
+      let stuck = -1;
+      for (let k = 0; k < n && placed < n; k++) {
+        if (news[k]! >= 0) continue;
+        const w = this.#bestRoomAt(ids[k]!, side[k] === 0 ? p2 : p1);
+        if (w < 0) {
+          stuck = k;
+          break;
+        }
+        sc.set(ids[k]!, w);
+        news[k] = w;
         placed++;
       }
-    }
-    for (let k = 0; k < n && placed < n; k++) {
-      if (news[k]! >= 0) continue;
-      const w = this.#bestRoomAt(ids[k]!, side[k] === 0 ? p2 : p1);
-      if (w < 0) break;
-      sc.set(ids[k]!, w);
-      news[k] = w;
-      placed++;
-    }
-    if (placed === n) {
-      const d = sc.touchedCost(ids, n) - before;
-      if (accept(d)) {
-        this.#cost += d;
-        for (let k = 0; k < n; k++) this.#drop(members[k]!, olds[k]!);
-        for (let k = 0; k < n; k++) this.#take(members[k]!, news[k]!);
-        return true;
+      if (placed === n) {
+        const d = sc.touchedCost(ids, n) - before;
+        if (accept(d)) {
+          this.#cost += d;
+          for (let k = 0; k < n; k++) this.#drop(members[k]!, olds[k]!);
+          for (let k = 0; k < n; k++) this.#take(members[k]!, news[k]!);
+          return true;
+        }
+        for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
+        return false;
       }
+      for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
+      // a member found no free room: the session holding its own room at its new start joins the
+      // chain the other way (and with it whoever that one clashes with), a few times at most
+      const room = sp.roomOf(olds[stuck]!);
+      if (pulls >= this.#roomPulls || room === this.#noRoom) return false;
+      const z = this.#holder[(side[stuck] === 0 ? p2 : p1) * RS + room]!;
+      if (z < 0 || this.#mark[z] === stamp || n >= MAX_CHAIN) return false;
+      if (req.series[sp.sessionSeries[this.#sessions[z]!]!]!.length !== length) return false;
+      this.#mark[z] = stamp;
+      members[n] = z;
+      side[n] = 1 - side[stuck]!;
+      n++;
     }
-    for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
-    return false;
   }
 
   /**
@@ -385,12 +407,18 @@ export interface WeekNeighbourhoodOptions {
   readonly roomMoveShare?: number;
   /** When a start's room is held by a session that cannot exchange places, try the cheapest free room there. @default true */
   readonly otherRoom?: boolean;
+  /**
+   * How many times a chain whose member finds no free room may take along the session that holds
+   * that member's room at its new start (moving it the other way). @default 2
+   */
+  readonly roomPulls?: number;
   /** Seed of the neighbourhood's own choices. @default 0 */
   readonly seed?: number;
 }
 
 const DEFAULT_KEEP_ROOM = 0.8;
 const DEFAULT_ROOM_MOVE = 0.1;
+const DEFAULT_ROOM_PULLS = 2;
 
 /** Most sessions one chain move may take along. */
 const MAX_CHAIN = 32;

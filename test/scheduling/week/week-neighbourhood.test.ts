@@ -243,6 +243,31 @@ describe('WeekNeighbourhood room choices', () => {
     expect([p.value(0), p.value(1), p.value(2)]).toEqual([at(0, BIG), at(1, BIG), at(2, BIG)]);
   });
 
+  it('a chain whose member finds no free room takes along the session holding its room', () => {
+    const req: WeekRequest = {
+      ...base,
+      rooms: [{ id: 'only', seats: 10, features: [] }],
+      series: [
+        { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need },
+        { id: 'b', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
+      ],
+    };
+    const space = new WeekSpace(req);
+    const ONLY = 0;
+    const slots = 2; // one room and the "no room" slot
+    const scorer = new WeekScorer(space);
+    // a (p) at cell 0 and b (q) at cell 1, both in the only room: nobody clashes, but a chain that
+    // moves a to cell 1 finds its room taken
+    scorer.load([0 * slots + ONLY, 1 * slots + ONLY]);
+    const none = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]), { roomPulls: 0 });
+    expect(none.tryChain(0, 1 * slots + ONLY, () => true)).toBe(false);
+    expect([none.value(0), none.value(1)]).toEqual([0 * slots + ONLY, 1 * slots + ONLY]);
+    const pull = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]));
+    expect(pull.tryChain(0, 1 * slots + ONLY, () => true)).toBe(true);
+    expect([pull.value(0), pull.value(1)]).toEqual([1 * slots + ONLY, 0 * slots + ONLY]);
+    expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
+  });
+
   it("takes the cheapest free room when the kept room's holder cannot exchange places", () => {
     const req: WeekRequest = {
       ...base,
