@@ -67,7 +67,9 @@ describe('week plan through the service: plan with progress, lock, re-lock', () 
       database: ':memory:',
       invitesDir: invites,
       weekTimeMs: 2500,
-      weekProgressMs: 400,
+      // short enough that a fast machine, where the demo week settles in about a second, still sees
+      // several reports
+      weekProgressMs: 100,
     });
     try {
       const s = demo.service;
@@ -80,7 +82,7 @@ describe('week plan through the service: plan with progress, lock, re-lock', () 
       if (!r.ok) throw new Error(JSON.stringify(r.issues));
       expect(progress.length).toBeGreaterThanOrEqual(3);
       const times = progress.map((x) => x.p.elapsedMs);
-      for (let i = 1; i < times.length; i++) expect(times[i]! - times[i - 1]!).toBeGreaterThanOrEqual(400);
+      for (let i = 1; i < times.length; i++) expect(times[i]! - times[i - 1]!).toBeGreaterThanOrEqual(100);
       // Reports arrived before the answer, while the main thread was free.
       expect(progress.at(-2)!.at).toBeLessThan(done);
       expect(progress.some((x) => Number.isFinite(x.p.best))).toBe(true);

@@ -1,3 +1,4 @@
+import { SlotwrightError } from '../../errors.ts';
 import { type NeighbourhoodProblem, Prng } from '../../solver/index.ts';
 import type { WeekScorer } from './week-scorer.ts';
 import type { WeekSpace } from './week-space.ts';
@@ -50,6 +51,16 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#roomMove = options.roomMoveShare ?? DEFAULT_ROOM_MOVE;
     this.#fallback = options.otherRoom ?? true;
     this.#roomPulls = options.roomPulls ?? DEFAULT_ROOM_PULLS;
+    if (
+      !(this.#keepRoom >= 0 && this.#keepRoom <= 1) ||
+      !(this.#roomMove >= 0 && this.#roomMove <= 1) ||
+      !(Number.isInteger(this.#roomPulls) && this.#roomPulls >= 0)
+    ) {
+      throw new SlotwrightError(
+        'bad_argument',
+        'week moves: keepRoomShare and roomMoveShare must be shares between 0 and 1, and roomPulls a whole number of at least 0',
+      );
+    }
     this.#rng = new Prng(options.seed ?? 0);
     this.#space = space;
     this.#scorer = scorer;

@@ -7,7 +7,10 @@ import {
   WeekSpace,
   ZERO_WEIGHTS,
 } from '../../../src/scheduling/week/index.ts';
-import { WeekNeighbourhood } from '../../../src/scheduling/week/week-neighbourhood.ts';
+import {
+  WeekNeighbourhood,
+  type WeekNeighbourhoodOptions,
+} from '../../../src/scheduling/week/week-neighbourhood.ts';
 import { WeekScorer } from '../../../src/scheduling/week/week-scorer.ts';
 import { Prng } from '../../../src/solver/index.ts';
 import { planProblems } from './plan-checker.ts';
@@ -241,6 +244,22 @@ describe('WeekNeighbourhood room choices', () => {
     // every session is in the series' main room now: a room move has nothing to do
     expect(p.tryChange(0, at(2, SMALL), () => true)).toBe(false);
     expect([p.value(0), p.value(1), p.value(2)]).toEqual([at(0, BIG), at(1, BIG), at(2, BIG)]);
+  });
+
+  it('refuses move settings outside their range, saying which', () => {
+    const req: WeekRequest = {
+      ...base,
+      series: [{ id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need }],
+    };
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    scorer.load([at(0, BIG)]);
+    const make = (options: WeekNeighbourhoodOptions) =>
+      new WeekNeighbourhood(space, scorer, Int32Array.from([0]), options);
+    expect(() => make({ keepRoomShare: 1.5 })).toThrow(/keepRoomShare/);
+    expect(() => make({ roomMoveShare: -0.1 })).toThrow(/roomMoveShare/);
+    expect(() => make({ roomPulls: 1.5 })).toThrow(/roomPulls/);
+    expect(make({ keepRoomShare: 0, roomMoveShare: 1, roomPulls: 0 }).size).toBe(1);
   });
 
   it('a chain whose member finds no free room takes along the session holding its room', () => {
