@@ -59,7 +59,7 @@ export interface PlanWeekOptions {
   readonly moves?: number;
   /**
    * Annealing settings passed to the engine (temperatures, round growth, shares of swaps and chain
-   * moves). @default swapShare 0.1 and chainShare 0.4 (tuned on the benchmark weeks), the rest the engine's
+   * moves). @default swapShare 0.3 and chainShare 0.2 (tuned on the benchmark weeks), the rest the engine's
    */
   readonly annealing?: Pick<
     AnnealOptions,
@@ -294,8 +294,8 @@ export function planWeek(request: WeekRequest, options: PlanWeekOptions = {}): W
       seed: o.seed,
       // preference costs are never negative: a plan at 0 cannot be beaten
       lowerBound: 0,
-      swapShare: 0.1,
-      chainShare: 0.4,
+      swapShare: 0.3,
+      chainShare: 0.2,
       ...o.annealing,
       onProgress: (p) => report('improve', Math.min(best, p.best)),
     });
