@@ -18,6 +18,7 @@ export {
 } from './plan-week.ts';
 export { SYNTHETIC_WEIGHTS, type SyntheticWeekOptions, syntheticWeek } from './synthetic-week.ts';
 export { buildImproveModel, buildPlaceModel, countViolations, type WeekModel } from './week-model.ts';
+export { WeekNeighbourhood, type WeekNeighbourhoodOptions } from './week-neighbourhood.ts';
 export type {
   PlacedSession,
   WeekAttendee,
