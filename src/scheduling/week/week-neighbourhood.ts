@@ -125,15 +125,18 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
    */
   tryChange(variable: number, value: number, accept: (delta: number) => boolean): boolean {
     const sp = this.#space;
-    const current = this.#scorer.valueOf(this.#sessions[variable]!);
+    const sc = this.#scorer;
+    const session = this.#sessions[variable]!;
+    const series = sp.sessionSeries[session]!;
+    const current = sc.valueOf(session);
     const room = sp.roomOf(current);
     if (this.#roomMove > 0 && room !== this.#noRoom && this.#rng.next() < this.#roomMove) {
       // a room change in place, towards the room its series uses most: room stability is otherwise
       // mended only by the rare random proposal that names the same start and the right room
-      const main = this.#mainRoom(this.#sessions[variable]!);
+      const main = this.#mainRoom(session);
       if (main === room) return false;
       value = sp.cellOf(current) * sp.roomSlots + main;
-      if (!sp.allows(sp.sessionSeries[this.#sessions[variable]!]!, value)) return false;
+      if (!sp.allows(series, value)) return false;
     }
     // a move to another start mostly keeps the session's room: a random room would nearly always
     // cost room stability, and the walk would spend most of its proposals on moves it then declines
@@ -145,11 +148,9 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
       this.#rng.next() < this.#keepRoom
     ) {
       const kept = sp.cellOf(value) * sp.roomSlots + room;
-      if (sp.allows(sp.sessionSeries[this.#sessions[variable]!]!, kept)) value = kept;
+      if (sp.allows(series, kept)) value = kept;
     }
     const holder = this.#holder[value]!;
-    const session = this.#sessions[variable]!;
-    const sc = this.#scorer;
     if (holder >= 0 && holder !== variable) {
       if (this.#swapFits(variable, holder)) return this.#swap(variable, holder, accept);
       if (!this.#fallback) return false;
@@ -363,19 +364,17 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const sc = this.#scorer;
     const s = sp.sessionSeries[session]!;
     const RS = sp.roomSlots;
-    if (sp.request.series[s]!.room === undefined) {
-      const w = cell * RS + this.#noRoom;
-      return sp.allows(s, w) && sc.freeFor(session, w) ? w : -1;
-    }
     // the attendees once, then only the rooms
-    if (!sc.freeFor(session, cell * RS + this.#noRoom)) return -1;
-    const length = sp.request.series[s]!.length;
+    const roomless = cell * RS + this.#noRoom;
+    if (!sc.freeFor(session, roomless)) return -1;
+    if (sp.request.series[s]!.room === undefined) return sp.allows(s, roomless) ? roomless : -1;
     let best = -1;
     let bestCost = Number.POSITIVE_INFINITY;
     for (const r of this.#roomsOf[s]!) {
       const w = cell * RS + r;
-      if (!sp.allows(s, w) || !sc.roomFreeFor(session, r, cell, length)) continue;
-      const cost = sc.unaryCost(session, w) + (sc.seriesInRoom(s, r) > 0 ? 0 : sc.roomStabilityWeight(s));
+      if (!sp.allows(s, w) || !sc.roomFreeFor(session, r, cell)) continue;
+      // (the start's own costs are the same in every room: only the room's part decides)
+      const cost = sc.roomCost(s, r);
       if (cost < bestCost) {
         bestCost = cost;
         best = w;

@@ -243,10 +243,11 @@ export class WeekScorer {
   }
 
   #add(i: number, v: number): void {
-    const s = this.#space.sessionSeries[i]!;
+    const sp = this.#space;
+    const s = sp.sessionSeries[i]!;
     const RS = this.#RS;
-    const c = Math.floor(v / RS);
-    const r = v - c * RS;
+    const c = sp.cellOf(v);
+    const r = sp.roomOf(v);
     const C = this.#C;
     const L = this.#len[s]!;
     const occ = this.#occ;
@@ -265,11 +266,12 @@ export class WeekScorer {
   }
 
   #remove(i: number): void {
+    const sp = this.#space;
     const v = this.#value[i]!;
-    const s = this.#space.sessionSeries[i]!;
+    const s = sp.sessionSeries[i]!;
     const RS = this.#RS;
-    const c = Math.floor(v / RS);
-    const r = v - c * RS;
+    const c = sp.cellOf(v);
+    const r = sp.roomOf(v);
     const C = this.#C;
     const L = this.#len[s]!;
     const occ = this.#occ;
@@ -371,9 +373,13 @@ export class WeekScorer {
     return this.#seriesRoom[series * this.#RS + room]!;
   }
 
-  /** The room-stability weight of a series (0 when it takes no room). */
-  roomStabilityWeight(series: number): number {
-    return this.#stabW[series]!;
+  /**
+   * What room slot `room` would cost a further session of `series` on its own: its missing seats,
+   * plus the room-stability weight when the series does not use that room yet.
+   */
+  roomCost(series: number, room: number): number {
+    const k = series * this.#RS + room;
+    return this.#seats[k]! + (this.#seriesRoom[k]! > 0 ? 0 : this.#stabW[series]!);
   }
 
   /** Overlapping sessions of one attendee, counted per attendee-cell and extra session. */
@@ -497,12 +503,13 @@ export class WeekScorer {
   }
 
   /**
-   * True when room slot `room` holds no session over `length` cells from `cell`, apart from
+   * True when room slot `room` holds no session over the session's length from `cell`, apart from
    * `session` itself: the room half of `freeFor`, for trying several rooms at one start.
    */
-  roomFreeFor(session: number, room: number, cell: number, length: number): boolean {
+  roomFreeFor(session: number, room: number, cell: number): boolean {
     if (room === this.#RS - 1) return true;
     const sp = this.#space;
+    const length = this.#len[sp.sessionSeries[session]!]!;
     const old = this.#value[session]!;
     const mine = old >= 0 && sp.roomOf(old) === room ? sp.cellOf(old) : -1;
     const base = room * this.#C;
