@@ -194,6 +194,14 @@ describe('WeekNeighbourhood room choices', () => {
   const BIG = 0;
   const SMALL = 1;
   const LARGE = 2;
+  /** The moves over every session of the plan the scorer holds. */
+  const movesOf = (space: WeekSpace, scorer: WeekScorer, options: WeekNeighbourhoodOptions = {}) =>
+    new WeekNeighbourhood(
+      space,
+      scorer,
+      Int32Array.from({ length: space.sessionCount }, (_, i) => i),
+      options,
+    );
 
   it('a move to another start keeps the room when asked to, whatever room the proposal named', () => {
     const req: WeekRequest = {
@@ -203,7 +211,7 @@ describe('WeekNeighbourhood room choices', () => {
     const space = new WeekSpace(req);
     const scorer = new WeekScorer(space);
     scorer.load([at(0, BIG), at(1, BIG)]);
-    const keep = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]), {
+    const keep = movesOf(space, scorer, {
       keepRoomShare: 1,
       roomMoveShare: 0,
     });
@@ -212,7 +220,7 @@ describe('WeekNeighbourhood room choices', () => {
     expect(keep.value(1)).toBe(at(2, BIG));
     expect(scorer.parts()).toMatchObject({ roomStability: 0, seats: 0 });
     // without keeping, the named room is taken
-    const named = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]), {
+    const named = movesOf(space, scorer, {
       keepRoomShare: 0,
       roomMoveShare: 0,
     });
@@ -230,7 +238,7 @@ describe('WeekNeighbourhood room choices', () => {
     const scorer = new WeekScorer(space);
     // two sessions in big, one in small
     scorer.load([at(0, BIG), at(1, SMALL), at(2, BIG)]);
-    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), { roomMoveShare: 1 });
+    const p = movesOf(space, scorer, { roomMoveShare: 1 });
     let seen = Number.NaN;
     expect(
       p.tryChange(1, at(3, LARGE), (d) => {
@@ -254,8 +262,7 @@ describe('WeekNeighbourhood room choices', () => {
     const space = new WeekSpace(req);
     const scorer = new WeekScorer(space);
     scorer.load([at(0, BIG)]);
-    const make = (options: WeekNeighbourhoodOptions) =>
-      new WeekNeighbourhood(space, scorer, Int32Array.from([0]), options);
+    const make = (options: WeekNeighbourhoodOptions) => movesOf(space, scorer, options);
     expect(() => make({ keepRoomShare: 1.5 })).toThrow(/keepRoomShare/);
     expect(() => make({ roomMoveShare: -0.1 })).toThrow(/roomMoveShare/);
     expect(() => make({ roomPulls: 1.5 })).toThrow(/roomPulls/);
@@ -278,10 +285,10 @@ describe('WeekNeighbourhood room choices', () => {
     // a (p) at cell 0 and b (q) at cell 1, both in the only room: nobody clashes, but a chain that
     // moves a to cell 1 finds its room taken
     scorer.load([0 * slots + ONLY, 1 * slots + ONLY]);
-    const none = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]), { roomPulls: 0 });
+    const none = movesOf(space, scorer, { roomPulls: 0 });
     expect(none.tryChain(0, 1 * slots + ONLY, () => true)).toBe(false);
     expect([none.value(0), none.value(1)]).toEqual([0 * slots + ONLY, 1 * slots + ONLY]);
-    const pull = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1]));
+    const pull = movesOf(space, scorer);
     expect(pull.tryChain(0, 1 * slots + ONLY, () => true)).toBe(true);
     expect([pull.value(0), pull.value(1)]).toEqual([1 * slots + ONLY, 0 * slots + ONLY]);
     expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
@@ -301,14 +308,14 @@ describe('WeekNeighbourhood room choices', () => {
     const values = [at(0, BIG), at(1, BIG), at(0, SMALL)];
     const scorer = new WeekScorer(space);
     scorer.load(values);
-    const refuse = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), {
+    const refuse = movesOf(space, scorer, {
       keepRoomShare: 1,
       roomMoveShare: 0,
       otherRoom: false,
     });
     expect(refuse.tryChange(0, at(1, SMALL), () => true)).toBe(false);
     expect(refuse.value(0)).toBe(at(0, BIG));
-    const fallBack = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), {
+    const fallBack = movesOf(space, scorer, {
       keepRoomShare: 1,
       roomMoveShare: 0,
     });
