@@ -77,8 +77,6 @@ export class WeekScorer {
   readonly #seats: Float64Array;
   /** Per series: last week's values (one entry per session). */
   readonly #last: readonly Int32Array[];
-  /** Per series: indexes of attendees who opted in to compactness. */
-  readonly #compact: readonly Int32Array[];
   readonly #weights: Float64Array;
   readonly #isolatedWeight: number;
   /** Attendee-cells with more than one session (each extra session counts once). */
@@ -109,6 +107,14 @@ export class WeekScorer {
   /** Attendees of series s: #attList[#attFirst[s] .. #attFirst[s + 1]). */
   readonly #attFirst: Int32Array;
   readonly #attList: Int32Array;
+  /** Attendees of series s who opted in to compactness: #compList[#compFirst[s] .. #compFirst[s + 1]). */
+  readonly #compFirst: Int32Array;
+  readonly #compList: Int32Array;
+  /** The space's series of each session, first and one-past-last cell of each day, and cell continuity. */
+  readonly #seriesOf: Int32Array;
+  readonly #dayFirst: Int32Array;
+  readonly #dayEnd: Int32Array;
+  readonly #continues: Uint8Array;
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -168,9 +174,16 @@ export class WeekScorer {
       last[s] = Int32Array.from(l);
     });
     this.#last = last;
-    this.#compact = req.series.map((s) =>
-      Int32Array.from(s.attendees.filter((a) => req.attendees[a]!.compact === true)),
-    );
+    const compact = req.series.map((s) => s.attendees.filter((a) => req.attendees[a]!.compact === true));
+    this.#compFirst = new Int32Array(S + 1);
+    compact.forEach((list, si) => {
+      this.#compFirst[si + 1] = this.#compFirst[si]! + list.length;
+    });
+    this.#compList = Int32Array.from(compact.flat());
+    this.#seriesOf = space.sessionSeries;
+    this.#dayFirst = space.dayFirst;
+    this.#dayEnd = space.dayEnd;
+    this.#continues = space.continues;
     req.series.forEach((s, si) => {
       names.forEach((n, k) => {
         this.#weights[si * names.length + k] = s.weights?.[n] ?? req.weights[n];
@@ -291,21 +304,23 @@ export class WeekScorer {
 
   /** Cost of isolated meetings of one attendee on one day, by runs of back-to-back cells. */
   #isolatedOn(a: number, day: number): number {
-    const sp = this.#space;
-    const C = this.#C;
-    const end = sp.dayEnd[day]!;
+    const base = a * this.#C;
+    const occ = this.#occ;
+    const starts = this.#starts;
+    const continues = this.#continues;
+    const end = base + this.#dayEnd[day]!;
     let cost = 0;
     let runStarts = 0;
     let inRun = false;
-    for (let c = sp.dayFirst[day]!; c < end; c++) {
-      const o = this.#occ[a * C + c]!;
-      if (o > 0 && inRun && sp.continues[c] === 1) {
-        runStarts += this.#starts[a * C + c]!;
+    for (let i = base + this.#dayFirst[day]!; i < end; i++) {
+      const o = occ[i]!;
+      if (o > 0 && inRun && continues[i - base] === 1) {
+        runStarts += starts[i]!;
         continue;
       }
       if (inRun && runStarts === 1) cost++;
       inRun = o > 0;
-      runStarts = inRun ? this.#starts[a * C + c]! : 0;
+      runStarts = inRun ? starts[i]! : 0;
     }
     if (inRun && runStarts === 1) cost++;
     return cost * this.#isolatedWeight;
@@ -360,11 +375,14 @@ export class WeekScorer {
 
   #localOf(s: number, d0: number, d1: number): number {
     let cost = this.#spreadOf(s) + this.#roomStabilityOf(s) + this.#movesOf(s);
-    if (this.#isolatedWeight > 0)
-      for (const a of this.#compact[s]!) {
+    if (this.#isolatedWeight > 0) {
+      const list = this.#compList;
+      for (let j = this.#compFirst[s]!, end = this.#compFirst[s + 1]!; j < end; j++) {
+        const a = list[j]!;
         if (d0 >= 0) cost += this.#isolatedOn(a, d0);
         if (d1 >= 0 && d1 !== d0) cost += this.#isolatedOn(a, d1);
       }
+    }
     return cost;
   }
 
@@ -446,8 +464,8 @@ export class WeekScorer {
       this.#seriesMark[s] = stamp;
       series[ns++] = s;
       if (this.#isolatedWeight > 0) {
-        const compact = this.#compact[s]!;
-        for (let i = 0; i < compact.length; i++) {
+        const compact = this.#compList;
+        for (let i = this.#compFirst[s]!, end = this.#compFirst[s + 1]!; i < end; i++) {
           const a = compact[i]!;
           if (this.#attendeeMark[a] !== stamp) {
             this.#attendeeMark[a] = stamp;
@@ -524,9 +542,8 @@ export class WeekScorer {
   /** The check of `freeFor`, with `other` (when >= 0) also left out of the count. */
   #fits(session: number, value: number, other: number): boolean {
     const sp = this.#space;
-    const s = sp.sessionSeries[session]!;
-    const ser = sp.request.series[s]!;
-    const L = ser.length;
+    const s = this.#seriesOf[session]!;
+    const L = this.#len[s]!;
     const C = this.#C;
     const c = sp.cellOf(value);
     const r = sp.roomOf(value);
@@ -534,27 +551,29 @@ export class WeekScorer {
     const oc = old >= 0 ? sp.cellOf(old) : -1;
     const or = old >= 0 ? sp.roomOf(old) : -1;
     const ov = other >= 0 ? this.#value[other]! : -1;
-    const oser = ov >= 0 ? sp.request.series[sp.sessionSeries[other]!]! : undefined;
+    const os = ov >= 0 ? this.#seriesOf[other]! : -1;
     const tc = ov >= 0 ? sp.cellOf(ov) : -1;
     const tr = ov >= 0 ? sp.roomOf(ov) : -1;
-    const OL = oser?.length ?? 0;
-    const atts = ser.attendees;
+    const OL = os >= 0 ? this.#len[os]! : 0;
+    const list = this.#attList;
+    const first = this.#attFirst[s]!;
+    const end = this.#attFirst[s + 1]!;
+    const occ = this.#occ;
     for (let k = 0; k < L; k++) {
       const cell = c + k;
       const mine = oc >= 0 && cell >= oc && cell < oc + L ? 1 : 0;
       const theirs = tc >= 0 && cell >= tc && cell < tc + OL ? 1 : 0;
-      for (let i = 0; i < atts.length; i++) {
-        const a = atts[i]!;
-        let held = this.#occ[a * C + cell]! - mine;
-        if (theirs === 1 && oser!.attendees.includes(a)) held--;
-        if (held > 0) return false;
+      for (let i = first; i < end; i++) {
+        const a = list[i]!;
+        const held = occ[a * C + cell]! - mine;
+        if (held > 0 && (theirs === 0 || held > 1 || !this.#attends(os, a))) return false;
       }
       if (r !== this.#RS - 1) {
         const held = this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) - (tr === r ? theirs : 0);
         if (held > 0) return false;
       }
     }
-    if (atts.length === 0) {
+    if (first === end) {
       for (let j = sp.seriesFirst[s]!; j < sp.seriesFirst[s + 1]!; j++) {
         const w = this.#value[j]!;
         if (j === session || j === other || w < 0) continue;
@@ -563,6 +582,14 @@ export class WeekScorer {
       }
     }
     return true;
+  }
+
+  /** True when attendee `a` attends series `s`. */
+  #attends(s: number, a: number): boolean {
+    const list = this.#attList;
+    for (let i = this.#attFirst[s]!, end = this.#attFirst[s + 1]!; i < end; i++)
+      if (list[i] === a) return true;
+    return false;
   }
 
   /** The cost of the current plan by kind, computed from the counters. */
