@@ -110,11 +110,6 @@ export class WeekScorer {
   /** Attendees of series s who opted in to compactness: #compList[#compFirst[s] .. #compFirst[s + 1]). */
   readonly #compFirst: Int32Array;
   readonly #compList: Int32Array;
-  /** The space's series of each session, first and one-past-last cell of each day, and cell continuity. */
-  readonly #seriesOf: Int32Array;
-  readonly #dayFirst: Int32Array;
-  readonly #dayEnd: Int32Array;
-  readonly #continues: Uint8Array;
 
   constructor(space: WeekSpace) {
     this.#space = space;
@@ -180,10 +175,6 @@ export class WeekScorer {
       this.#compFirst[si + 1] = this.#compFirst[si]! + list.length;
     });
     this.#compList = Int32Array.from(compact.flat());
-    this.#seriesOf = space.sessionSeries;
-    this.#dayFirst = space.dayFirst;
-    this.#dayEnd = space.dayEnd;
-    this.#continues = space.continues;
     req.series.forEach((s, si) => {
       names.forEach((n, k) => {
         this.#weights[si * names.length + k] = s.weights?.[n] ?? req.weights[n];
@@ -304,15 +295,16 @@ export class WeekScorer {
 
   /** Cost of isolated meetings of one attendee on one day, by runs of back-to-back cells. */
   #isolatedOn(a: number, day: number): number {
+    const sp = this.#space;
     const base = a * this.#C;
     const occ = this.#occ;
     const starts = this.#starts;
-    const continues = this.#continues;
-    const end = base + this.#dayEnd[day]!;
+    const continues = sp.continues;
+    const end = base + sp.dayEnd[day]!;
     let cost = 0;
     let runStarts = 0;
     let inRun = false;
-    for (let i = base + this.#dayFirst[day]!; i < end; i++) {
+    for (let i = base + sp.dayFirst[day]!; i < end; i++) {
       const o = occ[i]!;
       if (o > 0 && inRun && continues[i - base] === 1) {
         runStarts += starts[i]!;
@@ -542,7 +534,7 @@ export class WeekScorer {
   /** The check of `freeFor`, with `other` (when >= 0) also left out of the count. */
   #fits(session: number, value: number, other: number): boolean {
     const sp = this.#space;
-    const s = this.#seriesOf[session]!;
+    const s = sp.sessionSeries[session]!;
     const L = this.#len[s]!;
     const C = this.#C;
     const c = sp.cellOf(value);
@@ -551,7 +543,7 @@ export class WeekScorer {
     const oc = old >= 0 ? sp.cellOf(old) : -1;
     const or = old >= 0 ? sp.roomOf(old) : -1;
     const ov = other >= 0 ? this.#value[other]! : -1;
-    const os = ov >= 0 ? this.#seriesOf[other]! : -1;
+    const os = ov >= 0 ? sp.sessionSeries[other]! : -1;
     const tc = ov >= 0 ? sp.cellOf(ov) : -1;
     const tr = ov >= 0 ? sp.roomOf(ov) : -1;
     const OL = os >= 0 ? this.#len[os]! : 0;
@@ -566,7 +558,8 @@ export class WeekScorer {
       for (let i = first; i < end; i++) {
         const a = list[i]!;
         const held = occ[a * C + cell]! - mine;
-        if (held > 0 && (theirs === 0 || held > 1 || !this.#attends(os, a))) return false;
+        // taken, unless the one session left there is `other`'s
+        if (held > 0 && !(held === 1 && theirs === 1 && this.#attends(os, a))) return false;
       }
       if (r !== this.#RS - 1) {
         const held = this.#roomOcc[r * C + cell]! - (or === r ? mine : 0) - (tr === r ? theirs : 0);
