@@ -32,7 +32,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #olds = new Int32Array(MAX_CHAIN);
   readonly #news = new Int32Array(MAX_CHAIN);
   readonly #ids = new Int32Array(MAX_CHAIN);
-  readonly #days = new Int32Array(2);
+  readonly #cells = new Int32Array(2);
   #cost: number;
   readonly #keepRoom: number;
   readonly #roomMove: number;
@@ -260,9 +260,9 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const olds = this.#olds;
     const news = this.#news;
     const ids = this.#ids;
-    const days = this.#days;
-    days[0] = req.cells[p1]!.day;
-    days[1] = req.cells[p2]!.day;
+    const cells = this.#cells;
+    cells[0] = p1;
+    cells[1] = p2;
     const RS = sp.roomSlots;
     let followed = 0;
     for (let pulls = 0; ; pulls++) {
@@ -301,7 +301,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
         ids[k] = session;
         olds[k] = sc.valueOf(session);
       }
-      const before = sc.touch(ids, n, days, days[0] === days[1] ? 1 : 2);
+      const before = sc.touch(ids, n, cells);
       // then the exchange itself, by plain moves: every member out, then each into its new start in
       // a free room (members that can keep their room go first, so none of them loses it to one that
       // cannot); it is undone when some member finds no room or the walk declines its price

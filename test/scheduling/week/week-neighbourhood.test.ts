@@ -158,13 +158,12 @@ describe('WeekScorer.touch and touchedCost', () => {
       }
       fresh.load(Array.from({ length: space.sessionCount }, (_, i) => scorer.valueOf(i)));
       const before = fresh.total();
-      // every day a session leaves or enters is touched
-      const days = new Set<number>();
+      // every start cell a session leaves or takes is touched
+      const cells = new Set<number>();
       ids.forEach((session, k) => {
-        for (const v of [scorer.valueOf(session), values[k]!])
-          if (v >= 0) days.add(req.cells[space.cellOf(v)]!.day);
+        for (const v of [scorer.valueOf(session), values[k]!]) if (v >= 0) cells.add(space.cellOf(v));
       });
-      const priced = scorer.touch(ids, ids.length, [...days]);
+      const priced = scorer.touch(ids, ids.length, [...cells]);
       for (let k = 0; k < ids.length; k++) scorer.set(ids[k]!, values[k]!);
       const d = scorer.touchedCost(ids, ids.length) - priced;
       fresh.load(Array.from({ length: space.sessionCount }, (_, i) => scorer.valueOf(i)));

@@ -244,3 +244,83 @@ describe('WeekScorer.delta', () => {
     );
   });
 });
+
+describe('WeekScorer on long days (isolated meetings counted only around a move)', () => {
+  // invented: two days of 20 half-hour cells, with a break between cells 9 and 10 of each day (the
+  // 10th cell does not continue the 9th), so runs end at the break and at the day's edges
+  const HALF = 1_800_000;
+  const longCells = Array.from({ length: 40 }, (_, c) => {
+    const day = Math.floor(c / 20);
+    const slot = c % 20;
+    const start = day * 48 * HALF + (slot + (slot >= 10 ? 1 : 0)) * HALF;
+    return { start, end: start + HALF, day };
+  });
+  const req: WeekRequest = {
+    cells: longCells,
+    days: 2,
+    rooms,
+    attendees: [{ id: 'a', compact: true }, { id: 'b', compact: true }, { id: 'c' }],
+    series: [
+      { id: 'one', attendees: [0, 1], sessions: 3, minDays: 1, length: 1 },
+      { id: 'two', attendees: [0, 2], sessions: 2, minDays: 1, length: 2 },
+      { id: 'three', attendees: [1], sessions: 2, minDays: 1, length: 3 },
+      { id: 'four', attendees: [0], sessions: 3, minDays: 2, length: 1 },
+    ],
+    weights: { ...ZERO_WEIGHTS, isolated: 2, spread: 5 },
+    seatsHard: true,
+  };
+  const space = new WeekSpace(req);
+  const cand = space.candidates;
+  const n = space.sessionCount;
+  const plans = fc.tuple(
+    ...Array.from({ length: n }, (_, i) => {
+      const c = cand[space.sessionSeries[i]!]!;
+      return fc.integer({ min: 0, max: c.length - 1 }).map((k) => c[k]!);
+    }),
+  );
+
+  it('applyDelta equals the change of the full cost, runs merging and splitting included', () => {
+    fc.assert(
+      fc.property(
+        plans,
+        fc.integer({ min: 0, max: n - 1 }),
+        fc.integer({ min: 0, max: 10_000 }),
+        (plan, session, k) => {
+          const c = cand[space.sessionSeries[session]!]!;
+          const next = k % 7 === 0 ? -1 : c[k % c.length]!;
+          const scorer = new WeekScorer(space);
+          scorer.load(plan);
+          const before = scorer.total();
+          const d = scorer.applyDelta(session, next);
+          const fresh = new WeekScorer(space);
+          fresh.load(plan.map((v, i) => (i === session ? next : v)));
+          expect(d).toBeCloseTo(fresh.total() - before, 9);
+          // and the scorer's own total agrees with a fresh count of the new plan
+          expect(scorer.total()).toBeCloseTo(fresh.total(), 9);
+        },
+      ),
+      { numRuns: 400, seed: 7 },
+    );
+  });
+
+  it('touch and touchedCost price several sessions moved at once as a fresh count does', () => {
+    fc.assert(
+      fc.property(plans, plans, fc.integer({ min: 1, max: (1 << n) - 1 }), (plan, other, mask) => {
+        const ids: number[] = [];
+        for (let i = 0; i < n; i++) if ((mask >> i) & 1) ids.push(i);
+        const scorer = new WeekScorer(space);
+        scorer.load(plan);
+        const before = scorer.total();
+        const cells = new Set<number>();
+        for (const i of ids) for (const v of [plan[i]!, other[i]!]) cells.add(space.cellOf(v));
+        const priced = scorer.touch(ids, ids.length, [...cells]);
+        for (const i of ids) scorer.set(i, other[i]!);
+        const d = scorer.touchedCost(ids, ids.length) - priced;
+        const fresh = new WeekScorer(space);
+        fresh.load(plan.map((v, i) => (ids.includes(i) ? other[i]! : v)));
+        expect(d).toBeCloseTo(fresh.total() - before, 9);
+      }),
+      { numRuns: 400, seed: 8 },
+    );
+  });
+});
