@@ -50,6 +50,7 @@ function baselineMs(request: WeekRequest, capMs: number): { ms: number; solved: 
 
 /** One run of one instance: its soft cost by our scorer, and its hard violations (placed and not). */
 interface InstanceRun {
+  readonly name: string;
   readonly seed: number;
   readonly soft: number;
   readonly hard: number;
@@ -82,7 +83,7 @@ function runInstance(file: string, seconds: number, seed: number): InstanceRun {
       `first feasible ${plan.stats.feasibleMs.toFixed(0)} ms (plain backtracking baseline: ${base.solved ? `${base.ms.toFixed(0)} ms, ${(base.ms / Math.max(1, plan.stats.feasibleMs)).toFixed(1)}x slower` : `no plan within ${base.ms.toFixed(0)} ms`})  ` +
       `initial ${plan.stats.initialCost} -> ${plan.score.total} in ${plan.stats.moves} moves, ${plan.stats.rounds} rounds (seed ${seed})\n`,
   );
-  return { seed, soft: plan.score.total, hard, solution: formatCbcttSolution(inst, plan.sessions) };
+  return { name, seed, soft: plan.score.total, hard, solution: formatCbcttSolution(inst, plan.sessions) };
 }
 
 /** The middle value (the mean of the two middle ones for an even count). */
@@ -113,7 +114,7 @@ function runSeeds(
   );
   if (out !== undefined && cheapest !== undefined) writeFileSync(out, cheapest.solution);
   if (seeds > 1) {
-    const name = basename(file).replace(/\.ctt$/, '');
+    const name = runs[0]!.name;
     const best = BEST_KNOWN[name];
     const mid = median(runs.map((r) => r.soft));
     process.stdout.write(

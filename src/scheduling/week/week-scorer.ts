@@ -507,17 +507,12 @@ export class WeekScorer {
 
   /**
    * Starts pricing a compound move: the series of `count` sessions, their attendees who opted in to
-   * compactness, and the first `cellCount` of `cells` (every start cell a session leaves or takes)
-   * become the touched parts, and their present cost is returned (see `touchedCost`). Move the
-   * sessions with `set`, then `touchedCost` minus this is the change of the preference cost (with
-   * no `applyDelta` in between: it moves the days' touched spans).
+   * compactness, and `cells` (every start cell a session leaves or takes) become the touched parts,
+   * and their present cost is returned (see `touchedCost`). Move the sessions with `set`, then
+   * `touchedCost` minus this is the change of the preference cost (with no `applyDelta` in between:
+   * it moves the days' touched spans).
    */
-  touch(
-    sessions: ArrayLike<number>,
-    count: number,
-    cells: ArrayLike<number>,
-    cellCount = cells.length,
-  ): number {
+  touch(sessions: ArrayLike<number>, count: number, cells: ArrayLike<number>): number {
     const sp = this.#space;
     const stamp = ++this.#stamp;
     const series = this.#touchedSeries;
@@ -544,7 +539,7 @@ export class WeekScorer {
     }
     // per day, the span from the first touched start to the end of the longest session from the last
     let nd = 0;
-    for (let j = 0; j < cellCount; j++) {
+    for (let j = 0; j < cells.length; j++) {
       const c = cells[j]!;
       const d = this.#cellDay[c]!;
       if (this.#dayMark[d] !== stamp) {
