@@ -21,7 +21,7 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
   readonly #who: Int32Array;
   /** Variable of each session in the search. */
   readonly #variableOf: Map<number, number>;
-  /** Rooms each series may take (empty when it needs none). */
+  /** Rooms each series may take (empty when it needs none), fewest missing seats first. */
   readonly #roomsOf: readonly Int32Array[];
   /** Chain scratch: the chain's stamp per variable, its members and their sides and old values. */
   readonly #mark: Int32Array;
@@ -70,7 +70,10 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     this.#noRoom = space.request.rooms.length;
     this.#who = new Int32Array(space.request.attendees.length * space.request.cells.length).fill(-1);
     this.#variableOf = new Map(Array.from(sessions, (session, v) => [session, v]));
-    this.#roomsOf = space.request.series.map((_, s) => Int32Array.from(space.roomsFor(s)));
+    // (a stable sort: rooms of equal seats keep the space's order)
+    this.#roomsOf = space.request.series.map((_, s) =>
+      Int32Array.from([...space.roomsFor(s)].sort((a, b) => scorer.seatCost(s, a) - scorer.seatCost(s, b))),
+    );
     this.#mark = new Int32Array(sessions.length);
     this.#cost = scorer.total();
     this.#hold();
@@ -371,6 +374,9 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     let best = -1;
     let bestCost = Number.POSITIVE_INFINITY;
     for (const r of this.#roomsOf[s]!) {
+      // rooms come by missing seats: once those alone cost as much as the best so far, no later room
+      // can cost less
+      if (sc.seatCost(s, r) >= bestCost) break;
       const w = cell * RS + r;
       if (!sp.allows(s, w) || !sc.roomFreeFor(session, r, cell)) continue;
       // (the start's own costs are the same in every room: only the room's part decides)

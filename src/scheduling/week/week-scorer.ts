@@ -448,6 +448,11 @@ export class WeekScorer {
     return this.#seats[k]! + (this.#seriesRoom[k]! > 0 ? 0 : this.#stabW[series]!);
   }
 
+  /** Missing seats of room slot `room` for a session of `series`, priced (the static half of `roomCost`). */
+  seatCost(series: number, room: number): number {
+    return this.#seats[series * this.#RS + room]!;
+  }
+
   /** Overlapping sessions of one attendee, counted per attendee-cell and extra session. */
   clashes(): number {
     return this.#clashes;
