@@ -4,6 +4,7 @@
 import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import { parseArgs } from 'node:util';
+import { MAX_THREADS, planWeekOnThreads } from '../src/app/week-threads.ts';
 import {
   buildPlaceModel,
   cbcttToWeekRequest,
@@ -11,6 +12,7 @@ import {
   parseCbctt,
   planWeek,
   syntheticWeek,
+  type WeekPlan,
   type WeekRequest,
   WeekSpace,
 } from '../src/scheduling/week/index.ts';
@@ -57,20 +59,28 @@ interface InstanceRun {
   readonly solution: string;
 }
 
-function runInstance(file: string, seconds: number, seed: number): InstanceRun {
+/**
+ * One run: on this thread, or with `threads` > 1 as that many independent runs (seeds `seed` to
+ * `seed + threads - 1`) on worker threads, the best kept.
+ */
+async function runInstance(
+  file: string,
+  seconds: number,
+  seed: number,
+  threads: number,
+): Promise<InstanceRun> {
   const name = basename(file).replace(/\.ctt$/, '');
   const inst = parseCbctt(readFileSync(file, 'utf8'));
   const request = cbcttToWeekRequest(inst);
   const lectures = request.series.reduce((n, s) => n + s.sessions, 0);
-  let firstFeasible = Number.NaN;
-  const plan = planWeek(request, {
-    timeMs: seconds * 1000,
-    clock,
-    seed,
-    onProgress: (p) => {
-      if (p.phase === 'improve' && Number.isNaN(firstFeasible)) firstFeasible = p.elapsedMs;
-    },
-  });
+  let plan: WeekPlan;
+  let threadNote = '';
+  if (threads === 1) plan = planWeek(request, { timeMs: seconds * 1000, clock, seed });
+  else {
+    const t = await planWeekOnThreads(request, { threads, timeMs: seconds * 1000, seed });
+    plan = t.plan;
+    threadNote = `  threads ${threads}: soft ${t.runs.map((r) => (r.violations + r.unplaced > 0 ? `${r.total}(hard)` : r.total)).join(' ')}, seed ${t.seed} kept`;
+  }
   const missing = lectures - plan.sessions.length;
   const hard = plan.violations + missing;
   const best = BEST_KNOWN[name];
@@ -81,7 +91,7 @@ function runInstance(file: string, seconds: number, seed: number): InstanceRun {
       `soft ${plan.score.total} [capacity ${p.seats}, min days ${p.spread}, compactness ${p.isolated}, stability ${p.roomStability}]  ` +
       `best known ${best ?? '?'}  ratio ${best === undefined ? '?' : (plan.score.total / best).toFixed(2)}  ` +
       `first feasible ${plan.stats.feasibleMs.toFixed(0)} ms (plain backtracking baseline: ${base.solved ? `${base.ms.toFixed(0)} ms, ${(base.ms / Math.max(1, plan.stats.feasibleMs)).toFixed(1)}x slower` : `no plan within ${base.ms.toFixed(0)} ms`})  ` +
-      `initial ${plan.stats.initialCost} -> ${plan.score.total} in ${plan.stats.moves} moves, ${plan.stats.rounds} rounds (seed ${seed})\n`,
+      `initial ${plan.stats.initialCost} -> ${plan.score.total} in ${plan.stats.moves} moves, ${plan.stats.rounds} rounds (${threads > 1 ? `seeds ${seed}-${seed + threads - 1}` : `seed ${seed}`})${threadNote}\n`,
   );
   return { name, seed, soft: plan.score.total, hard, solution: formatCbcttSolution(inst, plan.sessions) };
 }
@@ -98,15 +108,17 @@ function median(xs: readonly number[]): number {
  * so one run says little about a setting); with more than one, prints the median and its ratio to
  * the best known. Writes the solution of the cheapest run without hard violations to `out`.
  */
-function runSeeds(
+async function runSeeds(
   file: string,
   seconds: number,
   seed: number,
   seeds: number,
+  threads: number,
   out: string | undefined,
-): boolean {
+): Promise<boolean> {
   const runs: InstanceRun[] = [];
-  for (let k = 0; k < seeds; k++) runs.push(runInstance(file, seconds, seed + k));
+  // with threads, run k takes the seeds after those of run k - 1
+  for (let k = 0; k < seeds; k++) runs.push(await runInstance(file, seconds, seed + k * threads, threads));
   const clean = runs.filter((r) => r.hard === 0);
   const cheapest = clean.reduce<InstanceRun | undefined>(
     (b, r) => (b === undefined || r.soft < b.soft ? r : b),
@@ -118,7 +130,7 @@ function runSeeds(
     const best = BEST_KNOWN[name];
     const mid = median(runs.map((r) => r.soft));
     process.stdout.write(
-      `${name.padEnd(8)} seeds ${seed}-${seed + seeds - 1}: soft ${runs.map((r) => r.soft).join(' ')}  ` +
+      `${name.padEnd(8)} ${threads > 1 ? `runs of ${threads} threads, ` : ''}seeds ${seed}-${seed + seeds * threads - 1}: soft ${runs.map((r) => r.soft).join(' ')}  ` +
         `median ${mid}  ratio ${best === undefined ? '?' : (mid / best).toFixed(2)} of best known ${best ?? '?'}  ` +
         `runs with hard violations ${runs.length - clean.length}\n`,
     );
@@ -140,7 +152,7 @@ function runSynthetic(seconds: number, seed: number): boolean {
   return plan.complete && plan.violations === 0;
 }
 
-/** `npm run bench -- week [--instance f] [--seconds s] [--out file] [--seed n] [--seeds k] [--synthetic]`. */
+/** `npm run bench -- week [--instance f] [--seconds s] [--out file] [--seed n] [--seeds k] [--threads t] [--synthetic]`. */
 export async function run(args: readonly string[]): Promise<number> {
   const { values } = parseArgs({
     args: [...args],
@@ -150,28 +162,35 @@ export async function run(args: readonly string[]): Promise<number> {
       out: { type: 'string' },
       seed: { type: 'string', default: '1' },
       seeds: { type: 'string', default: '1' },
+      threads: { type: 'string', default: '1' },
       synthetic: { type: 'boolean', default: false },
     },
   });
   const seconds = Number(values.seconds);
   const seed = Number(values.seed);
   const seeds = Number(values.seeds);
-  if (!(seconds > 0) || !Number.isInteger(seed) || !(Number.isInteger(seeds) && seeds >= 1)) {
+  const threads = Number(values.threads);
+  if (
+    !(seconds > 0) ||
+    !Number.isInteger(seed) ||
+    !(Number.isInteger(seeds) && seeds >= 1) ||
+    !(Number.isInteger(threads) && threads >= 1 && threads <= MAX_THREADS)
+  ) {
     process.stderr.write(
-      'usage: npm run bench -- week [--instance f.ctt] [--seconds s] [--out file] [--seed n] [--seeds k] [--synthetic]\n' +
-        '  --seconds must be above 0, --seed a whole number and --seeds a whole number of at least 1\n',
+      'usage: npm run bench -- week [--instance f.ctt] [--seconds s] [--out file] [--seed n] [--seeds k] [--threads t] [--synthetic]\n' +
+        `  --seconds must be above 0, --seed a whole number, --seeds a whole number of at least 1 and --threads one from 1 to ${MAX_THREADS}\n`,
     );
     return 2;
   }
   let ok = true;
   if (values.synthetic) return runSynthetic(Math.min(seconds, 2), seed) ? 0 : 1;
   if (values.instance !== undefined)
-    return runSeeds(values.instance, seconds, seed, seeds, values.out) ? 0 : 1;
+    return (await runSeeds(values.instance, seconds, seed, seeds, threads, values.out)) ? 0 : 1;
   for (const f of readdirSync(DATA)
     .filter((x) => x.endsWith('.ctt'))
     .sort()) {
     const out = values.out === undefined ? undefined : join(values.out, f.replace(/\.ctt$/, '.sol'));
-    ok = runSeeds(join(DATA, f), seconds, seed, seeds, out) && ok;
+    ok = (await runSeeds(join(DATA, f), seconds, seed, seeds, threads, out)) && ok;
   }
   ok = runSynthetic(2, seed) && ok;
   return ok ? 0 : 1;

@@ -23,6 +23,7 @@ import {
 } from '../scheduling/week/index.ts';
 import type { BusyInterval, Interval } from '../time/interval.ts';
 import { addDays, instantToZoned } from '../time/zoned.ts';
+import { planWeekOnThreads, type ThreadRun } from './week-threads.ts';
 
 /** One placed session of a workspace week plan. */
 export interface PlannedSession {
@@ -176,6 +177,52 @@ export function planWorkspaceWeek(
   context: SchedulingContext,
   options: PlanWorkspaceWeekOptions,
 ): Result<WorkspaceWeekPlan> {
+  const built = buildWorkspaceWeek(workspace, context, options);
+  if (!built.ok) return built;
+  const { isoWeek, week } = built.value;
+  const plan = planWeek(week.request, {
+    timeMs: options.timeMs ?? 5000,
+    clock: options.clock,
+    seed: options.seed ?? 1,
+    ...(options.onProgress === undefined ? {} : { onProgress: options.onProgress }),
+  });
+  return { ok: true, value: workspacePlanOf(isoWeek, week, plan) };
+}
+
+/** Options of planWorkspaceWeekOnThreads: those of planWorkspaceWeek, a thread count, no clock. */
+export type PlanWorkspaceWeekOnThreadsOptions = Omit<PlanWorkspaceWeekOptions, 'clock' | 'onProgress'> & {
+  /** Independent runs, one per worker thread (seeds seed, seed + 1, ...); the best plan is kept. */
+  readonly threads: number;
+};
+
+/**
+ * Plans a workspace's week as `threads` independent runs on worker threads, each with the whole
+ * time budget and its own seed, and keeps the best plan (see planWeekOnThreads).
+ */
+export async function planWorkspaceWeekOnThreads(
+  workspace: Workspace,
+  context: SchedulingContext,
+  options: PlanWorkspaceWeekOnThreadsOptions,
+): Promise<Result<WorkspaceWeekPlan & { readonly seed: number; readonly runs: readonly ThreadRun[] }>> {
+  const built = buildWorkspaceWeek(workspace, context, options);
+  if (!built.ok) return built;
+  const { isoWeek, week } = built.value;
+  const threaded = await planWeekOnThreads(week.request, {
+    threads: options.threads,
+    timeMs: options.timeMs ?? 5000,
+    seed: options.seed ?? 1,
+  });
+  return {
+    ok: true,
+    value: { ...workspacePlanOf(isoWeek, week, threaded.plan), seed: threaded.seed, runs: threaded.runs },
+  };
+}
+
+function buildWorkspaceWeek(
+  workspace: Workspace,
+  context: SchedulingContext,
+  options: Pick<PlanWorkspaceWeekOptions, 'isoWeek' | 'now' | 'lastWeek' | 'offHoursWeights'>,
+): Result<{ isoWeek: string; week: WorkspaceWeek }> {
   const isoWeek = options.isoWeek ?? nextIsoWeek(options.now, workspace.zone);
   const built = workspaceWeek({
     context,
@@ -185,14 +232,11 @@ export function planWorkspaceWeek(
     ...(options.lastWeek === undefined ? {} : { lastWeek: options.lastWeek }),
     ...(options.offHoursWeights === undefined ? {} : { offHoursWeights: options.offHoursWeights }),
   });
-  if (!built.ok) return built;
-  const week = built.value;
-  const plan = planWeek(week.request, {
-    timeMs: options.timeMs ?? 5000,
-    clock: options.clock,
-    seed: options.seed ?? 1,
-    ...(options.onProgress === undefined ? {} : { onProgress: options.onProgress }),
-  });
+  return built.ok ? { ok: true, value: { isoWeek, week: built.value } } : built;
+}
+
+/** A plan on the grid as the workspace's sessions (instants, in start order) and reasons. */
+function workspacePlanOf(isoWeek: string, week: WorkspaceWeek, plan: WeekPlan): WorkspaceWeekPlan {
   const sessions = plan.sessions
     .map((s) => {
       const start = week.request.cells[s.cell]!.start;
@@ -200,17 +244,14 @@ export function planWorkspaceWeek(
     })
     .sort((a, b) => a.start - b.start || a.series.localeCompare(b.series));
   return {
-    ok: true,
-    value: {
-      isoWeek,
-      sessions,
-      unplaced: plan.unplaced.map((u) => ({ ...u, reason: reasonOf(u.code, u.blockers) })),
-      score: plan.score,
-      complete: plan.complete,
-      violations: plan.violations,
-      week,
-      plan,
-    },
+    isoWeek,
+    sessions,
+    unplaced: plan.unplaced.map((u) => ({ ...u, reason: reasonOf(u.code, u.blockers) })),
+    score: plan.score,
+    complete: plan.complete,
+    violations: plan.violations,
+    week,
+    plan,
   };
 }
 

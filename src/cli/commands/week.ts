@@ -6,10 +6,12 @@ import {
   nextIsoWeek,
   type PlannedSession,
   planWorkspaceWeek,
+  planWorkspaceWeekOnThreads,
   weekContext,
   weekPlanIcs,
 } from '../../app/week.ts';
 import { withWorkspaceRest } from '../../app/week-post.ts';
+import { MAX_THREADS } from '../../app/week-threads.ts';
 import { loadWorkspace } from '../../config/load-workspace.ts';
 import { SlotwrightError } from '../../errors.ts';
 import { mondayOfIsoWeek } from '../../scheduling/fairness.ts';
@@ -19,7 +21,7 @@ import { UsageError } from '../io.ts';
 import type { CliCommand } from '../main.ts';
 
 const USAGE = [
-  'Usage: slotwright week --workspace <dir> [--week 2026-W50] [--seconds N] [--seed S] [--now <instant>]',
+  'Usage: slotwright week --workspace <dir> [--week 2026-W50] [--seconds N] [--seed S] [--threads T] [--now <instant>]',
   '                       [--last <plan.json>] [--ics <dir>] [--json]',
   '',
   'Places every series of the workspace for one week, together: nobody in two sessions at once, no room',
@@ -30,6 +32,8 @@ const USAGE = [
   '  --week <YYYY-Www>  ISO week to plan (default: the week after --now)',
   '  --seconds <N>      search time (default 5)',
   '  --seed <S>         seed of the search (default 1); same seed and budget, same plan',
+  '  --threads <T>      T independent searches at once on T threads, seeds S to S+T-1, each for N',
+  '                     seconds; the best plan is kept (default 1; use spare cores only)',
   '  --now <instant>    current time, e.g. 2026-12-01T09:00:00Z (default: the clock)',
   '  --last <file>      last week\u2019s plan as printed by --json; moves against it cost, and a diff is shown',
   '  --ics <dir>        write one .ics per series (weekly RRULE with BYDAY) into this folder',
@@ -93,6 +97,7 @@ export const command: CliCommand = {
       week: { type: 'string' },
       seconds: { type: 'string' },
       seed: { type: 'string' },
+      threads: { type: 'string' },
       now: { type: 'string' },
       last: { type: 'string' },
       ics: { type: 'string' },
@@ -115,6 +120,14 @@ export const command: CliCommand = {
     const seedText = stringOption(values, 'seed') ?? '1';
     if (!/^\d+$/.test(seedText) || Number(seedText) > 0xffffffff)
       throw new UsageError(`--seed takes a whole number from 0 to 4294967295, got '${seedText}'`);
+    const threadsText = stringOption(values, 'threads') ?? '1';
+    if (!/^\d+$/.test(threadsText) || Number(threadsText) < 1 || Number(threadsText) > MAX_THREADS)
+      throw new UsageError(`--threads takes a whole number from 1 to ${MAX_THREADS}, got '${threadsText}'`);
+    const threads = Number(threadsText);
+    if (threads > 1 && Number(seedText) + threads - 1 > 0xffffffff)
+      throw new UsageError(
+        `--seed plus --threads must stay within 4294967296, got ${seedText} and ${threads}`,
+      );
     const nowText = stringOption(values, 'now');
     const now = nowText === undefined ? io.now() : parseNow(nowText);
     const lastFile = stringOption(values, 'last');
@@ -139,27 +152,44 @@ export const command: CliCommand = {
     const context = withWorkspaceRest(workspace, weekContext(workspace, now, window), window);
     let lastShown = -1;
     const started = io.now();
-    const result = planWorkspaceWeek(workspace, context, {
+    const base = {
       isoWeek,
       now,
       timeMs: Number(secondsText) * 1000,
-      clock: () => io.now(),
       seed: Number(seedText),
       ...(last === undefined ? {} : { lastWeek: last }),
-      ...(io.isTty
-        ? {
-            onProgress: (p) => {
-              const t = io.now() - started;
-              if (t - lastShown < 500 && p.phase === 'improve') return;
-              lastShown = t;
-              const best = Number.isNaN(p.best) ? '-' : String(round(p.best));
-              io.err(
-                `week: ${(t / 1000).toFixed(1)} s, ${p.phase}, best cost ${best}, unplaced ${p.unplaced}`,
-              );
-            },
-          }
-        : {}),
-    });
+    };
+    let result: ReturnType<typeof planWorkspaceWeek>;
+    if (threads > 1) {
+      // independent searches on worker threads report no progress of their own: one line before,
+      // one after with every search's cost, so the kept seed can be run again alone
+      io.err(`week: ${threads} searches on ${threads} threads, ${secondsText} s each`);
+      const threaded = await planWorkspaceWeekOnThreads(workspace, context, { ...base, threads });
+      if (threaded.ok) {
+        const costs = threaded.value.runs
+          .map((r) => `seed ${r.seed} ${round(r.total)}${r.unplaced > 0 ? ` (${r.unplaced} left out)` : ''}`)
+          .join(', ');
+        io.err(`week: ${costs}; kept seed ${threaded.value.seed}`);
+      }
+      result = threaded;
+    } else
+      result = planWorkspaceWeek(workspace, context, {
+        ...base,
+        clock: () => io.now(),
+        ...(io.isTty
+          ? {
+              onProgress: (p) => {
+                const t = io.now() - started;
+                if (t - lastShown < 500 && p.phase === 'improve') return;
+                lastShown = t;
+                const best = Number.isNaN(p.best) ? '-' : String(round(p.best));
+                io.err(
+                  `week: ${(t / 1000).toFixed(1)} s, ${p.phase}, best cost ${best}, unplaced ${p.unplaced}`,
+                );
+              },
+            }
+          : {}),
+      });
     if (!result.ok) {
       io.err('slotwright week: the series cannot be planned:');
       for (const i of result.issues) io.err(`  ${i.path.join('.')}: ${i.message}`);

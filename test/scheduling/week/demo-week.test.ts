@@ -240,6 +240,56 @@ describe('slotwright week on the demo workspace', () => {
     }
   }, 30_000);
 
+  it('runs independent searches on threads with --threads and keeps the cheapest, valid plan', async () => {
+    const rec = io();
+    const code = await runCli(
+      [
+        'week',
+        '--workspace',
+        DEMO,
+        '--week',
+        '2026-W50',
+        '--seconds',
+        '0.5',
+        '--seed',
+        '4',
+        '--threads',
+        '2',
+        '--now',
+        '2026-12-01T12:00:00Z',
+        '--json',
+      ],
+      rec,
+    );
+    expect(code).toBe(3);
+    const err = rec.stderr.join('\n');
+    expect(err).toContain('week: 2 searches on 2 threads, 0.5 s each');
+    const m = /week: seed 4 ([\d.]+) \(1 left out\), seed 5 ([\d.]+) \(1 left out\); kept seed ([45])/.exec(
+      err,
+    );
+    expect(m).not.toBeNull();
+    const out = JSON.parse(rec.stdout.join('\n')) as {
+      sessions: { series: string; start: string; end: string; room: string | null }[];
+      unplaced: { series: string }[];
+      score: { total: number };
+    };
+    // the kept plan is the cheaper of the two, and it is valid by the checker
+    const costs = [Number(m![1]), Number(m![2])];
+    expect(out.score.total).toBe(Math.min(...costs));
+    expect(out.score.total).toBe(costs[Number(m![3]) - 4]);
+    expect(out.unplaced.map((u) => u.series)).toEqual(['leads-sync']);
+    expect(problems(out.sessions)).toEqual([]);
+
+    const bad = io();
+    expect(await runCli(['week', '--workspace', DEMO, '--threads', '0'], bad)).toBe(2);
+    expect(bad.stderr.join('\n')).toContain("--threads takes a whole number from 1 to 64, got '0'");
+    const bad2 = io();
+    expect(await runCli(['week', '--workspace', DEMO, '--seed', '4294967295', '--threads', '2'], bad2)).toBe(
+      2,
+    );
+    expect(bad2.stderr.join('\n')).toContain('--seed plus --threads must stay within 4294967296');
+  }, 30_000);
+
   it('shows the diff against last week and rejects bad arguments', async () => {
     const first = io();
     await runCli(
