@@ -434,6 +434,37 @@ export class WeekScorer {
     return cost;
   }
 
+  /**
+   * True when a placed session carries none of the costs a move of it could mend: nothing of its
+   * own at its start (day, hour, usual hours, rules, seats), its series on enough days, in one room
+   * and where it was last week, and every attendee who opted in to compactness with another meeting
+   * right before or after it the same day.
+   */
+  settled(session: number): boolean {
+    const v = this.#value[session]!;
+    if (v < 0) return false;
+    const s = this.#space.sessionSeries[session]!;
+    if (this.#unaryOf(s, v) > 0) return false;
+    if (this.#spreadOf(s) > 0 || this.#roomStabilityOf(s) > 0) return false;
+    if (this.#last[s]!.length > 0 && this.#movesOf(s) > 0) return false;
+    if (this.#isolatedWeight === 0) return true;
+    // a meeting is isolated when the run of back-to-back cells holding it holds no other meeting
+    const C = this.#C;
+    const continues = this.#space.continues;
+    const c = this.#space.cellOf(v);
+    const before = c - 1;
+    const after = c + this.#len[s]!;
+    const hasBefore = continues[c] === 1;
+    const hasAfter = after < C && continues[after] === 1;
+    const list = this.#compList;
+    for (let j = this.#compFirst[s]!, end = this.#compFirst[s + 1]!; j < end; j++) {
+      const base = list[j]! * C;
+      if (!(hasBefore && this.#occ[base + before]! > 0) && !(hasAfter && this.#occ[base + after]! > 0))
+        return false;
+    }
+    return true;
+  }
+
   /** Placed sessions of `series` in room slot `room`. */
   seriesInRoom(series: number, room: number): number {
     return this.#seriesRoom[series * this.#RS + room]!;

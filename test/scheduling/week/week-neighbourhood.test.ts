@@ -110,7 +110,8 @@ describe('WeekNeighbourhood chain moves', () => {
     const scorer = new WeekScorer(space);
     // a at cell 0, b at cell 1, c at cell 0 (value = cell x room slots, one slot: no room)
     scorer.load([0, 1, 0]);
-    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]));
+    // (no proposal passed over unpriced: the test names each move it wants made)
+    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), { focusShare: 0 });
     // a plain move of a to cell 1 clashes with b (both have p)
     expect(p.tryChange(0, 1, () => true)).toBe(false);
     // the chain: a to 1, b (shares p with a) to 0, then c (shares q with b, at 0) to 1
@@ -130,7 +131,8 @@ describe('WeekNeighbourhood chain moves', () => {
     const space = new WeekSpace(req);
     const scorer = new WeekScorer(space);
     scorer.load([0, 1, 0]);
-    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]));
+    // (no proposal passed over unpriced: the test names each move it wants made)
+    const p = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), { focusShare: 0 });
     expect(p.tryChain(0, 1, () => false)).toBe(false);
     expect([p.value(0), p.value(1), p.value(2)]).toEqual([0, 1, 0]);
   });
@@ -193,13 +195,16 @@ describe('WeekNeighbourhood room choices', () => {
   const BIG = 0;
   const SMALL = 1;
   const LARGE = 2;
-  /** The moves over every session of the plan the scorer holds. */
+  /**
+   * The moves over every session of the plan the scorer holds; no proposal is passed over unpriced
+   * unless the options ask for it (the tests name each move they want made).
+   */
   const movesOf = (space: WeekSpace, scorer: WeekScorer, options: WeekNeighbourhoodOptions = {}) =>
     new WeekNeighbourhood(
       space,
       scorer,
       Int32Array.from({ length: space.sessionCount }, (_, i) => i),
-      options,
+      { focusShare: 0, ...options },
     );
 
   it('a move to another start keeps the room when asked to, whatever room the proposal named', () => {
@@ -265,6 +270,8 @@ describe('WeekNeighbourhood room choices', () => {
     expect(() => make({ keepRoomShare: 1.5 })).toThrow(/keepRoomShare/);
     expect(() => make({ roomMoveShare: -0.1 })).toThrow(/roomMoveShare/);
     expect(() => make({ roomPulls: 1.5 })).toThrow(/roomPulls/);
+    expect(() => make({ focusShare: 1 })).toThrow(/focusShare at least 0 and below 1/);
+    expect(() => make({ focusShare: -0.5 })).toThrow(/focusShare/);
     expect(make({ keepRoomShare: 0, roomMoveShare: 1, roomPulls: 0 }).size).toBe(1);
   });
 
@@ -326,5 +333,58 @@ describe('WeekNeighbourhood room choices', () => {
       at(0, SMALL),
     ]);
     expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
+  });
+});
+
+describe('WeekNeighbourhood focus on sessions that carry cost', () => {
+  // invented: one day of four back-to-back hours; p and q opted in to compactness
+  const HOUR = 3_600_000;
+  const req: WeekRequest = {
+    cells: [0, 1, 2, 3].map((c) => ({ start: c * HOUR, end: (c + 1) * HOUR, day: 0 })),
+    days: 1,
+    rooms: [],
+    attendees: [
+      { id: 'p', compact: true },
+      { id: 'q', compact: true },
+    ],
+    series: [
+      { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1 },
+      { id: 'b', attendees: [0], sessions: 1, minDays: 1, length: 1 },
+      { id: 'c', attendees: [1], sessions: 1, minDays: 1, length: 1 },
+    ],
+    weights: { ...ZERO_WEIGHTS, isolated: 1 },
+    seatsHard: true,
+  };
+  const RS = 1; // no rooms: only the "no room" slot
+
+  /** How many of `tries` proposals from each session reach pricing, with the given focus share. */
+  function priced(focusShare: number, tries: number): number[] {
+    const space = new WeekSpace(req);
+    const scorer = new WeekScorer(space);
+    // a and b back to back (settled); c alone, so isolated (carries cost)
+    scorer.load([0 * RS, 1 * RS, 3 * RS]);
+    expect([0, 1, 2].map((s) => scorer.settled(s))).toEqual([true, true, false]);
+    const moves = new WeekNeighbourhood(space, scorer, Int32Array.from([0, 1, 2]), { focusShare, seed: 5 });
+    return [0, 1, 2].map((v) => {
+      let count = 0;
+      for (let i = 0; i < tries; i++)
+        moves.tryChange(v, 2 * RS, () => {
+          count++;
+          return false;
+        });
+      return count;
+    });
+  }
+
+  it('passes over about focusShare of the proposals from settled sessions, none from the others', () => {
+    const [a, b, c] = priced(0.75, 400);
+    // about a quarter of 400 priced for each settled session (binomial: 100 +- 9 for one sigma)
+    expect(a).toBeGreaterThan(60);
+    expect(a).toBeLessThan(140);
+    expect(b).toBeGreaterThan(60);
+    expect(b).toBeLessThan(140);
+    expect(c).toBe(400);
+    // with no focus every proposal is priced
+    expect(priced(0, 400)).toEqual([400, 400, 400]);
   });
 });

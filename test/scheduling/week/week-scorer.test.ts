@@ -324,3 +324,137 @@ describe('WeekScorer on long days (isolated meetings counted only around a move)
     );
   });
 });
+
+describe('WeekScorer.settled (a session with no cost a move of it could mend)', () => {
+  // invented: two days of 8 one-hour cells with a break between the 4th and 5th cell of each day
+  const cellsWithBreak = Array.from({ length: 16 }, (_, c) => {
+    const day = Math.floor(c / 8);
+    const slot = c % 8;
+    const start = day * 24 * HOUR + (slot + (slot >= 4 ? 1 : 0)) * HOUR;
+    return { start, end: start + HOUR, day };
+  });
+  const req: WeekRequest = {
+    cells: cellsWithBreak,
+    days: 2,
+    rooms,
+    attendees: [{ id: 'a', compact: true }, { id: 'b', compact: true }, { id: 'c' }],
+    series: [
+      { id: 'x', attendees: [0, 1], sessions: 2, minDays: 2, length: 1, room: { seats: 3, features: [] } },
+      { id: 'y', attendees: [0, 2], sessions: 2, minDays: 1, length: 2, preferredDays: [true, false] },
+      { id: 'z', attendees: [1], sessions: 2, minDays: 1, length: 1 },
+      { id: 'w', attendees: [2], sessions: 1, minDays: 1, length: 1 },
+    ],
+    weights: {
+      ...ZERO_WEIGHTS,
+      isolated: 2,
+      spread: 5,
+      roomStability: 1,
+      preferredDays: 3,
+      moves: 4,
+      seats: 1,
+    },
+    seatsHard: false,
+    lastWeek: [{ series: 'y', cell: 1, room: null }],
+  };
+  const space = new WeekSpace(req);
+  const cand = space.candidates;
+  const n = space.sessionCount;
+
+  /** The definition, by hand from the request and the values alone. */
+  function settledByHand(values: readonly number[], session: number): boolean {
+    const val = values[session]!;
+    if (val < 0) return false;
+    const s = space.sessionSeries[session]!;
+    const ser = req.series[s]!;
+    const cell = Math.floor(val / RS);
+    const room = val % RS;
+    const day = cellsWithBreak[cell]!.day;
+    const mine = Array.from({ length: n }, (_, i) => i).filter(
+      (i) => space.sessionSeries[i] === s && values[i]! >= 0,
+    );
+    if (ser.preferredDays !== undefined && !ser.preferredDays[day]) return false;
+    if (ser.room !== undefined && room !== NONE && rooms[room]!.seats < ser.room.seats) return false;
+    const days = new Set(mine.map((i) => cellsWithBreak[Math.floor(values[i]! / RS)]!.day));
+    if (days.size < ser.minDays) return false;
+    const used = new Set(mine.map((i) => values[i]! % RS).filter((r) => r !== NONE));
+    if (used.size > 1) return false;
+    const last = (req.lastWeek ?? []).filter((p) => p.series === ser.id).map((p) => p.cell * RS + NONE);
+    if (last.length > 0) {
+      const left = [...last];
+      let matched = 0;
+      for (const i of mine) {
+        const k = left.indexOf(values[i]!);
+        if (k >= 0) {
+          left.splice(k, 1);
+          matched++;
+        }
+      }
+      if (matched < Math.min(mine.length, last.length)) return false;
+    }
+    // every compact attendee has another meeting in a cell right before or after it, back to back
+    const backToBack = (p: number, q: number) =>
+      cellsWithBreak[p]!.day === cellsWithBreak[q]!.day &&
+      cellsWithBreak[p]!.end === cellsWithBreak[q]!.start;
+    const end = cell + ser.length - 1;
+    for (const a of ser.attendees) {
+      if (req.attendees[a]!.compact !== true) continue;
+      const neighbour = Array.from({ length: n }, (_, i) => i).some((i) => {
+        if (i === session || values[i]! < 0) return false;
+        const t = req.series[space.sessionSeries[i]!]!;
+        if (!t.attendees.includes(a)) return false;
+        const from = Math.floor(values[i]! / RS);
+        const to = from + t.length - 1;
+        return (
+          (cell > 0 && from <= cell - 1 && cell - 1 <= to && backToBack(cell - 1, cell)) ||
+          (end + 1 < cellsWithBreak.length && from <= end + 1 && end + 1 <= to && backToBack(end, end + 1))
+        );
+      });
+      if (!neighbour) return false;
+    }
+    return true;
+  }
+
+  it('agrees with the definition worked out by hand on random plans, breaks and unplaced sessions included', () => {
+    const plans = fc.tuple(
+      ...Array.from({ length: n }, (_, i) => {
+        const c = cand[space.sessionSeries[i]!]!;
+        // one value in eight leaves the session out
+        return fc
+          .integer({ min: -Math.ceil(c.length / 7), max: c.length - 1 })
+          .map((k) => (k < 0 ? -1 : c[k]!));
+      }),
+    );
+    let settled = 0;
+    let unsettled = 0;
+    fc.assert(
+      fc.property(plans, (plan) => {
+        const scorer = new WeekScorer(space);
+        scorer.load(plan);
+        for (let i = 0; i < n; i++) {
+          const got = scorer.settled(i);
+          expect(got).toBe(settledByHand(plan, i));
+          if (got) settled++;
+          else unsettled++;
+        }
+      }),
+      { numRuns: 500, seed: 11 },
+    );
+    // both answers occur, so neither a constant true nor a constant false would pass
+    expect(settled).toBeGreaterThan(50);
+    expect(unsettled).toBeGreaterThan(50);
+  });
+
+  it('sees a meeting across a break as isolated, and one back to back as not', () => {
+    const scorer = new WeekScorer(space);
+    const at = (cell: number, room = NONE) => cell * RS + room;
+    // z (b only) at cells 3 and 4: the break lies between them, so each is alone in its run; w is
+    // attended by c, who did not opt in, and never isolated
+    scorer.load([-1, -1, -1, -1, at(3), at(4), at(6)]);
+    expect(scorer.settled(4)).toBe(false);
+    expect(scorer.settled(5)).toBe(false);
+    expect(scorer.settled(6)).toBe(true);
+    scorer.load([-1, -1, -1, -1, at(2), at(3), at(6)]);
+    expect(scorer.settled(4)).toBe(true);
+    expect(scorer.settled(5)).toBe(true);
+  });
+});
