@@ -244,20 +244,8 @@ describe('slotwright week on the demo workspace', () => {
     const rec = io();
     const code = await runCli(
       [
-        'week',
-        '--workspace',
-        DEMO,
-        '--week',
-        '2026-W50',
-        '--seconds',
-        '0.5',
-        '--seed',
-        '4',
-        '--threads',
-        '2',
-        '--now',
-        '2026-12-01T12:00:00Z',
-        '--json',
+        ...['week', '--workspace', DEMO, '--week', '2026-W50', '--seconds', '0.5'],
+        ...['--seed', '4', '--threads', '2', '--now', '2026-12-01T12:00:00Z', '--json'],
       ],
       rec,
     );
