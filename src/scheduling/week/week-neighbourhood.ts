@@ -277,7 +277,6 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
     const C = req.cells.length;
     const who = this.#who;
     const olds = this.#olds;
-    const news = this.#news;
     const ids = this.#ids;
     const cells = this.#cells;
     cells[0] = p1;
@@ -314,52 +313,16 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
           n++;
         }
       }
-      // the cost of what the exchange touches (its series, and its attendees on the two days) now
       for (let k = 0; k < n; k++) {
         const session = this.#sessions[members[k]!]!;
         ids[k] = session;
         olds[k] = sc.valueOf(session);
       }
-      const before = sc.touch(ids, n, cells);
-      // then the exchange itself, by plain moves: every member out, then each into its new start in
-      // a free room (members that can keep their room go first, so none of them loses it to one that
-      // cannot); it is undone when some member finds no room or the walk declines its price
-      for (let k = 0; k < n; k++) sc.set(ids[k]!, -1);
-      let placed = 0;
-      for (let k = 0; k < n; k++) {
-        const session = ids[k]!;
-        const own = (side[k] === 0 ? p2 : p1) * RS + sp.roomOf(olds[k]!);
-        news[k] = -1;
-        if (sp.allows(sp.sessionSeries[session]!, own) && sc.freeFor(session, own)) {
-          sc.set(session, own);
-          news[k] = own;
-          placed++;
-        }
-      }
-      let stuck = -1;
-      for (let k = 0; k < n && placed < n; k++) {
-        if (news[k]! >= 0) continue;
-        const w = this.#bestRoomAt(ids[k]!, side[k] === 0 ? p2 : p1);
-        if (w < 0) {
-          stuck = k;
-          break;
-        }
-        sc.set(ids[k]!, w);
-        news[k] = w;
-        placed++;
-      }
-      if (placed === n) {
-        const d = sc.touchedCost(ids, n) - before;
-        if (accept(d)) {
-          this.#cost += d;
-          for (let k = 0; k < n; k++) this.#drop(members[k]!, olds[k]!);
-          for (let k = 0; k < n; k++) this.#take(members[k]!, news[k]!);
-          return true;
-        }
-        for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
-        return false;
-      }
-      for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
+      // a member with no room it could take at its new start dooms the exchange: it is not priced
+      let stuck = Math.abs(p1 - p2) >= length ? this.#roomless(n, p1, p2, stamp) : -1;
+      if (stuck < 0) stuck = this.#exchange(n, p1, p2, accept);
+      if (stuck === DONE) return true;
+      if (stuck === DECLINED) return false;
       // a member found no free room: the session holding its own room at its new start joins the
       // chain the other way (and with it whoever that one clashes with), a few times at most
       const room = sp.roomOf(olds[stuck]!);
@@ -372,6 +335,92 @@ export class WeekNeighbourhood implements NeighbourhoodProblem {
       side[n] = 1 - side[stuck]!;
       n++;
     }
+  }
+
+  /**
+   * The first of the chain's `n` members (in `#ids`, their sides in `#side`) that has no room it
+   * could take at its new start: every room of its series there is barred or held by a session
+   * outside the chain (stamp `stamp`). -1 when each has one, though rooms two members both need may
+   * still run out. Only for starts `p1` and `p2` at least a session's length apart.
+   */
+  #roomless(n: number, p1: number, p2: number, stamp: number): number {
+    const sp = this.#space;
+    const sc = this.#scorer;
+    const RS = sp.roomSlots;
+    for (let k = 0; k < n; k++) {
+      const session = this.#ids[k]!;
+      const s = sp.sessionSeries[session]!;
+      const rooms = this.#roomsOf[s]!;
+      if (rooms.length === 0) continue;
+      const cell = this.#side[k] === 0 ? p2 : p1;
+      let possible = false;
+      for (let i = 0; i < rooms.length && !possible; i++) {
+        const r = rooms[i]!;
+        const w = cell * RS + r;
+        if (!sp.allows(s, w)) continue;
+        const h = this.#holder[w]!;
+        possible = (h >= 0 && this.#mark[h] === stamp) || sc.roomFreeFor(session, r, cell);
+      }
+      if (!possible) return k;
+    }
+    return -1;
+  }
+
+  /**
+   * The chain's exchange itself, priced by `touch` before and `touchedCost` after: DONE when made,
+   * DECLINED when the walk declines its price, else the member that found no free room (undone).
+   */
+  #exchange(n: number, p1: number, p2: number, accept: (delta: number) => boolean): number {
+    const sp = this.#space;
+    const sc = this.#scorer;
+    const RS = sp.roomSlots;
+    const ids = this.#ids;
+    const olds = this.#olds;
+    const news = this.#news;
+    const side = this.#side;
+    const members = this.#members;
+    // the cost of what the exchange touches (its series, and its attendees on the two days) now
+    const before = sc.touch(ids, n, this.#cells);
+    // then the exchange itself, by plain moves: every member out, then each into its new start in
+    // a free room (members that can keep their room go first, so none of them loses it to one that
+    // cannot); it is undone when some member finds no room or the walk declines its price
+    for (let k = 0; k < n; k++) sc.set(ids[k]!, -1);
+    let placed = 0;
+    for (let k = 0; k < n; k++) {
+      const session = ids[k]!;
+      const own = (side[k] === 0 ? p2 : p1) * RS + sp.roomOf(olds[k]!);
+      news[k] = -1;
+      if (sp.allows(sp.sessionSeries[session]!, own) && sc.freeFor(session, own)) {
+        sc.set(session, own);
+        news[k] = own;
+        placed++;
+      }
+    }
+    let stuck = -1;
+    for (let k = 0; k < n && placed < n; k++) {
+      if (news[k]! >= 0) continue;
+      const w = this.#bestRoomAt(ids[k]!, side[k] === 0 ? p2 : p1);
+      if (w < 0) {
+        stuck = k;
+        break;
+      }
+      sc.set(ids[k]!, w);
+      news[k] = w;
+      placed++;
+    }
+    if (placed === n) {
+      const d = sc.touchedCost(ids, n) - before;
+      if (accept(d)) {
+        this.#cost += d;
+        for (let k = 0; k < n; k++) this.#drop(members[k]!, olds[k]!);
+        for (let k = 0; k < n; k++) this.#take(members[k]!, news[k]!);
+        return DONE;
+      }
+      for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
+      return DECLINED;
+    }
+    for (let k = 0; k < n; k++) sc.set(ids[k]!, olds[k]!);
+    return stuck;
   }
 
   /**
@@ -460,6 +509,10 @@ const DEFAULT_ROOM_PULLS = 2;
 // 38.9 against 40.6, comp07 13.5 against 14.4, comp06 42.6 against 42.6; the synthetic week at
 // 10 s, seeds 1-3: 142/161/172.5 against 145.5/174.5/177. 0.65 was no better on comp07.
 const DEFAULT_FOCUS = 0.5;
+
+/** What `#exchange` returns for a chain made, and for one whose price the walk declined. */
+const DONE = -2;
+const DECLINED = -3;
 
 /** Most sessions one chain move may take along. */
 const MAX_CHAIN = 32;

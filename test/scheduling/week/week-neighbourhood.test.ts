@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import {
   type PlacedSession,
   planWeek,
@@ -298,6 +298,38 @@ describe('WeekNeighbourhood room choices', () => {
     expect(pull.tryChain(0, 1 * slots + ONLY, () => true)).toBe(true);
     expect([pull.value(0), pull.value(1)]).toEqual([1 * slots + ONLY, 0 * slots + ONLY]);
     expect(planProblems(req, sessionsOf(space, scorer))).toEqual([]);
+  });
+
+  it('refuses a chain before pricing it when a member has no room it could take at its new start', () => {
+    const req: WeekRequest = {
+      ...base,
+      rooms: [{ id: 'only', seats: 10, features: [] }],
+      series: [
+        { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need },
+        { id: 'b', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
+      ],
+    };
+    const space = new WeekSpace(req);
+    const slots = 2; // one room and the "no room" slot
+    const scorer = new WeekScorer(space);
+    scorer.load([0 * slots, 2 * slots]);
+    const touch = vi.spyOn(scorer, 'touch');
+    const moves = movesOf(space, scorer, { roomPulls: 0 });
+    let asked = 0;
+    const accept = () => {
+      asked++;
+      return true;
+    };
+    // b holds the only room at cell 2 and shares nobody with a: a's chain to cell 2 cannot place a
+    expect(moves.tryChain(0, 2 * slots, accept)).toBe(false);
+    expect(touch).not.toHaveBeenCalled();
+    expect(asked).toBe(0);
+    expect([moves.value(0), moves.value(1)]).toEqual([0 * slots, 2 * slots]);
+    // to cell 1, where the room is free, the chain is priced and made
+    expect(moves.tryChain(0, 1 * slots, accept)).toBe(true);
+    expect(touch).toHaveBeenCalledTimes(1);
+    expect(asked).toBe(1);
+    expect(moves.value(0)).toBe(1 * slots);
   });
 
   it("takes the cheapest free room when the kept room's holder cannot exchange places", () => {
