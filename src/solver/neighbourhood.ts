@@ -68,7 +68,8 @@ export interface AnnealOptions {
   readonly lowerBound?: number;
   /**
    * Stop when this many moves in a row found no better assignment: a small problem has settled long
-   * before a generous time budget ends, and an answer in chat should not wait for the clock.
+   * before a generous time budget ends, and an answer in chat should not wait for the clock. With a
+   * time limit, a fifth of it must also have passed since the last better assignment.
    * @default 200000 + 50000 x size
    */
   readonly stallMoves?: number;
@@ -97,6 +98,8 @@ export interface AnnealResult {
 }
 
 const CHECK_EVERY = 128;
+/** Share of a time limit that must pass without a better plan before the stall rule may stop a timed run. */
+const STALL_TIME_SHARE = 0.2;
 const PROGRESS_EVERY = 4096;
 const EPOCH = 64;
 
@@ -149,13 +152,27 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
   const lowerBound = options.lowerBound ?? Number.NEGATIVE_INFINITY;
   const stallMoves = options.stallMoves ?? 200_000 + 50_000 * n;
   let lastBest = 0;
+  // With a time limit the cooling follows the clock, and a faster walk would cross the stall count
+  // while still hot, between two better plans: there the stall also needs a fifth of the time
+  // limit since the last better plan.
+  const timed = clock !== undefined && Number.isFinite(deadline);
+  let lastBestAt = t0;
   let stopped = n === 0 || limit <= 0 || b.signal?.aborted === true || startCost <= lowerBound;
   const out = (): boolean => {
     if (stopped) return true;
-    if (moves >= limit || moves - lastBest >= stallMoves) stopped = true;
+    if (moves >= limit || (!timed && moves - lastBest >= stallMoves)) stopped = true;
     else if (moves % CHECK_EVERY === 0) {
       if (b.signal?.aborted === true) stopped = true;
-      else if (clock !== undefined && clock() >= deadline) stopped = true;
+      else if (clock !== undefined) {
+        const now = clock();
+        if (now >= deadline) stopped = true;
+        else if (
+          timed &&
+          moves - lastBest >= stallMoves &&
+          now - lastBestAt >= STALL_TIME_SHARE * (deadline - t0)
+        )
+          stopped = true;
+      }
     }
     return stopped;
   };
@@ -221,6 +238,7 @@ export function anneal(problem: NeighbourhoodProblem, options: AnnealOptions): A
     if (cost < bestCost - 1e-9) {
       bestCost = cost;
       lastBest = moves;
+      if (timed) lastBestAt = clock!();
       for (let v = 0; v < n; v++) best[v] = problem.value(v);
       if (bestCost <= lowerBound) stopped = true;
     }

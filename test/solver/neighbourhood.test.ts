@@ -215,6 +215,23 @@ describe('anneal (engine simulated annealing over a problem that prices its own 
     expect(stalled.moves).toBeLessThan(1_000_000);
   });
 
+  it('with a time limit, stops on a stall only once a fifth of the limit has passed without a better plan', () => {
+    const { cost, forbidden, start } = instance(11, 8);
+    const optimum = bruteForce(cost, forbidden);
+    let now = 0;
+    // a fake clock that advances 0.01 ms per reading (one reading per 128 moves): a stall of 20000
+    // moves alone would end the run within a few ms of the last better plan
+    const res = anneal(new Placement(cost, forbidden, start), {
+      budget: { timeMs: 100, clock: () => (now += 0.01) },
+      seed: 1,
+      stallMoves: 20_000,
+    });
+    expect(res.cost).toBe(optimum);
+    expect(now).toBeGreaterThanOrEqual(20);
+    // and it did stop on the stall, well before the limit
+    expect(now).toBeLessThan(99);
+  });
+
   it('follows a time budget on the given clock', () => {
     const { cost, forbidden, start } = instance(7, 10);
     let now = 0;
