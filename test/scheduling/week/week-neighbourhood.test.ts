@@ -275,15 +275,18 @@ describe('WeekNeighbourhood room choices', () => {
     expect(make({ keepRoomShare: 0, roomMoveShare: 1, roomPulls: 0 }).size).toBe(1);
   });
 
+  // one room only; a (attended by p) and b (by q) share nobody
+  const oneRoom: WeekRequest = {
+    ...base,
+    rooms: [{ id: 'only', seats: 10, features: [] }],
+    series: [
+      { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need },
+      { id: 'b', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
+    ],
+  };
+
   it('a chain whose member finds no free room takes along the session holding its room', () => {
-    const req: WeekRequest = {
-      ...base,
-      rooms: [{ id: 'only', seats: 10, features: [] }],
-      series: [
-        { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need },
-        { id: 'b', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
-      ],
-    };
+    const req = oneRoom;
     const space = new WeekSpace(req);
     const ONLY = 0;
     const slots = 2; // one room and the "no room" slot
@@ -301,15 +304,7 @@ describe('WeekNeighbourhood room choices', () => {
   });
 
   it('refuses a chain before pricing it when a member has no room it could take at its new start', () => {
-    const req: WeekRequest = {
-      ...base,
-      rooms: [{ id: 'only', seats: 10, features: [] }],
-      series: [
-        { id: 'a', attendees: [0], sessions: 1, minDays: 1, length: 1, room: need },
-        { id: 'b', attendees: [1], sessions: 1, minDays: 1, length: 1, room: need },
-      ],
-    };
-    const space = new WeekSpace(req);
+    const space = new WeekSpace(oneRoom);
     const slots = 2; // one room and the "no room" slot
     const scorer = new WeekScorer(space);
     scorer.load([0 * slots, 2 * slots]);
