@@ -50,6 +50,7 @@ import {
   type PlannedSession,
   type PlanWorkspaceWeekOptions,
   planWorkspaceWeek,
+  WEEK_SEARCH_MS,
   type WorkspaceWeekPlan,
   weekContext,
 } from './week.ts';
@@ -1106,7 +1107,7 @@ export class DefaultSlotwrightService implements SlotwrightService {
       {
         now: nowMs,
         isoWeek,
-        timeMs: this.#o.weekTimeMs ?? 5000,
+        timeMs: this.#o.weekTimeMs ?? WEEK_SEARCH_MS,
         ...(offHoursWeights === undefined ? {} : { offHoursWeights }),
         // Last week's locked sessions make moving a session cost something, so weeks stay alike.
         ...(lastLocked === undefined

@@ -13,7 +13,7 @@ import {
 } from '../scheduling/index.ts';
 import { planWeek } from '../scheduling/week/plan-week.ts';
 import type { WeekRequest } from '../scheduling/week/week-request.ts';
-import { type PlannedSession, planWorkspaceWeek } from './week.ts';
+import { type PlannedSession, planWorkspaceWeek, WEEK_SEARCH_MS } from './week.ts';
 
 /** A solve the pool can run; plain data, as it crosses a thread boundary. */
 export type SolveTask =
@@ -34,7 +34,7 @@ export type SolveTask =
       readonly context: SchedulingContext;
       readonly isoWeek?: string;
       readonly now: number;
-      /** @default 5000 */
+      /** @default WEEK_SEARCH_MS (5000) */
       readonly timeMs?: number;
     };
 
@@ -61,7 +61,7 @@ export function solve(task: SolveTask): SolveAnswer {
     const r = planWorkspaceWeek(task.workspace, task.context, {
       now: task.now,
       clock: () => performance.now(),
-      timeMs: task.timeMs ?? 5000,
+      timeMs: task.timeMs ?? WEEK_SEARCH_MS,
       ...(task.isoWeek === undefined ? {} : { isoWeek: task.isoWeek }),
     });
     if (!r.ok) return { kind: 'workspace-week', outcome: r };

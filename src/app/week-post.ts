@@ -19,7 +19,7 @@ import type { Interval } from '../time/interval.ts';
 import { zonedToInstant } from '../time/zoned.ts';
 import { fairnessWeightsFor } from './fairness.ts';
 import type { ChatTransport, FairnessLedger } from './ports.ts';
-import { planWorkspaceWeek, type WorkspaceWeekPlan, weekContext } from './week.ts';
+import { planWorkspaceWeek, WEEK_SEARCH_MS, type WorkspaceWeekPlan, weekContext } from './week.ts';
 
 /** A chat message as the transport takes it. */
 export interface WeekPostMessage {
@@ -108,7 +108,7 @@ export function createWeekPlanPoster(deps: WeekPostDeps): WeekPlanPoster {
         now,
         isoWeek: request.isoWeek,
         clock: deps.clock,
-        timeMs: deps.timeMs ?? 5000,
+        timeMs: deps.timeMs ?? WEEK_SEARCH_MS,
         ...(offHoursWeights === undefined ? {} : { offHoursWeights }),
       });
       const message = planned.ok

@@ -60,7 +60,7 @@ export interface PlanWorkspaceWeekOptions {
   readonly isoWeek?: string;
   /** Current instant (epoch ms). */
   readonly now: number;
-  /** Search time in ms. @default 5000 */
+  /** Search time in ms. @default WEEK_SEARCH_MS (5000) */
   readonly timeMs?: number;
   /** Clock in ms for the time budget. */
   readonly clock: () => number;
@@ -74,6 +74,9 @@ export interface PlanWorkspaceWeekOptions {
 }
 
 const DAY = 86_400_000;
+
+/** Search time of a week plan when none is given, in ms. */
+export const WEEK_SEARCH_MS = 5000;
 
 /** The ISO week after the one holding `now`, read in `zone`. */
 export function nextIsoWeek(now: number, zone: string): string {
@@ -181,9 +184,8 @@ export function planWorkspaceWeek(
   if (!built.ok) return built;
   const { isoWeek, week } = built.value;
   const plan = planWeek(week.request, {
-    timeMs: options.timeMs ?? 5000,
+    ...searchOf(options),
     clock: options.clock,
-    seed: options.seed ?? 1,
     ...(options.onProgress === undefined ? {} : { onProgress: options.onProgress }),
   });
   return { ok: true, value: workspacePlanOf(isoWeek, week, plan) };
@@ -209,13 +211,20 @@ export async function planWorkspaceWeekOnThreads(
   const { isoWeek, week } = built.value;
   const threaded = await planWeekOnThreads(week.request, {
     threads: options.threads,
-    timeMs: options.timeMs ?? 5000,
-    seed: options.seed ?? 1,
+    ...searchOf(options),
   });
   return {
     ok: true,
     value: { ...workspacePlanOf(isoWeek, week, threaded.plan), seed: threaded.seed, runs: threaded.runs },
   };
+}
+
+/** The search time and seed of a plan, defaults filled in. */
+function searchOf(options: Pick<PlanWorkspaceWeekOptions, 'timeMs' | 'seed'>): {
+  timeMs: number;
+  seed: number;
+} {
+  return { timeMs: options.timeMs ?? WEEK_SEARCH_MS, seed: options.seed ?? 1 };
 }
 
 function buildWorkspaceWeek(
